@@ -1,0 +1,1 @@
+"""Shared test fixtures. Database fixtures live in tests/dbfixtures.py (see DEVELOPERS.md)."""
