@@ -1,0 +1,160 @@
+"""Distance to fault: synthetic lines built with scikit-rf, REFERENCES §7 check values."""
+
+from __future__ import annotations
+
+import json
+import warnings
+
+import numpy as np
+import pytest
+import skrf
+
+from mastwatch.rf.dtf import distance_to_fault
+from mastwatch.rf.errors import AnalysisError
+from mastwatch.rf.lines import C0, CABLES, CableType
+from mastwatch.rf.sweep import Sweep
+
+F401 = np.linspace(1e6, 401e6, 401)
+
+
+def _open_at(d: float, f: np.ndarray = F401, vf: float = 0.66) -> Sweep:
+    return Sweep(f, np.exp(-2j * 2 * np.pi * f / (vf * C0) * d))
+
+
+def test_reference_check_values_open_at_12_m() -> None:
+    # REFERENCES §7 [computed]: 401 points over 1–401 MHz, VF 0.66 → resolution 0.2473 m,
+    # range 98.93 m; an open at 12.000 m is found within about one resolution cell.
+    r = distance_to_fault(_open_at(12.0), 0.66)
+    assert r.resolution_m == pytest.approx(0.2473, abs=5e-5)
+    assert r.resolution_m == pytest.approx(0.66 * C0 / (2 * 400e6), rel=1e-12)  # VF·c/(2·span)
+    assert r.range_m == pytest.approx(98.93, abs=5e-3)
+    assert len(r.peaks) == 1
+    assert abs(r.peaks[0].distance_m - 12.0) < r.resolution_m
+    # coherent-gain scaling: an open at the end of a lossless line reads |ρ| ≈ 1
+    assert r.peaks[0].reflection == pytest.approx(1.0, abs=5e-3)
+    assert r.peaks[0].return_loss_db == pytest.approx(0.0, abs=0.05)
+
+
+@pytest.mark.parametrize("window", ["kaiser", "rect"])
+@pytest.mark.parametrize("d0", [0.0, 3.3, 12.07, 61.9])
+def test_open_scaling_and_position_for_both_windows(window: str, d0: float) -> None:
+    r = distance_to_fault(_open_at(d0), 0.66, window=window, threshold_db=6)
+    assert len(r.peaks) == 1
+    assert abs(r.peaks[0].distance_m - d0) < 0.1 * r.resolution_m
+    assert r.peaks[0].reflection == pytest.approx(1.0, abs=5e-3)
+
+
+def _skrf_faulty_line(f: np.ndarray, cable_z0: float, alpha: float) -> np.ndarray:
+    """23.4 m of VF 0.66 line: a 1.5 m section of 65 Ω from 8.0 m to 9.5 m, 150 Ω load.
+
+    Built with scikit-rf media (independent of mastwatch.rf.lines).
+    """
+    freq = skrf.Frequency.from_f(f, unit="Hz")
+    gamma = alpha + 1j * 2 * np.pi * f / (0.66 * C0)
+    main = skrf.media.DefinedGammaZ0(freq, z0_port=50.0, z0=cable_z0, gamma=gamma)
+    bump = skrf.media.DefinedGammaZ0(freq, z0_port=50.0, z0=65.0, gamma=gamma)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        net = (main.line(8.0, unit="m") ** bump.line(1.5, unit="m")
+               ** main.line(23.4 - 9.5, unit="m") ** main.resistor(150.0) ** main.short())
+    return net.s[:, 0, 0]
+
+
+def test_synthetic_fault_found_within_one_cell() -> None:
+    g = _skrf_faulty_line(F401, 50.0, 0.0)
+    r = distance_to_fault(Sweep(F401, g), 0.66)
+    found = [p.distance_m for p in r.peaks]
+    assert len(found) == 3, found
+    for want, got in zip((8.0, 9.5, 23.4), found, strict=True):
+        assert abs(got - want) < r.resolution_m, (want, got)
+    rho_step = 15 / 115  # 50 → 65 Ω: Pozar 4th ed. Γ = (Z − Z0)/(Z + Z0)
+    assert r.peaks[0].reflection == pytest.approx(rho_step, rel=0.05)
+    # the load 150 Ω on 50 Ω reflects 0.5, seen through two steps (1 − ρ²)² ≈ 0.966
+    assert r.peaks[2].reflection == pytest.approx(0.5 * (1 - rho_step**2) ** 2, rel=0.03)
+
+
+def test_loss_compensation_restores_the_end_reflection() -> None:
+    flat = CableType("flat 3 dB/100 m", 50.0, 0.66, k1=0.0, k2=0.0, k0=3.0)
+    alpha = float(flat.alpha_np_per_m(np.array([100e6]))[0])
+    g = np.exp(-2 * (alpha + 2j * np.pi * F401 / (0.66 * C0)) * 30.0)  # open at 30 m
+    sweep = Sweep(F401, g)
+    raw = distance_to_fault(sweep, cable=flat, compensate_loss=False)
+    comp = distance_to_fault(sweep, cable=flat)
+    assert raw.peaks[0].reflection == pytest.approx(np.exp(-2 * alpha * 30.0), rel=5e-3)
+    assert comp.peaks[0].reflection == pytest.approx(1.0, abs=5e-3)
+    assert comp.loss_compensated and comp.alpha_np_per_m == pytest.approx(alpha)
+    assert comp.velocity_factor == 0.66  # from the cable
+
+
+def test_rg58_lossy_fault_compensated_is_closer_to_the_truth() -> None:
+    cable = CABLES["RG-58"]
+    alpha_c = float(cable.alpha_np_per_m(np.array([201e6]))[0])
+    g = _skrf_faulty_line(F401, 50.0, alpha_c)
+    raw = distance_to_fault(Sweep(F401, g), cable=cable, compensate_loss=False)
+    comp = distance_to_fault(Sweep(F401, g), cable=cable)
+    true_end = 0.5 * (1 - (15 / 115) ** 2) ** 2
+    assert abs(comp.peaks[-1].reflection - true_end) < abs(raw.peaks[-1].reflection - true_end)
+    assert comp.peaks[-1].reflection == pytest.approx(true_end, rel=0.03)
+
+
+def test_matches_skrf_impulse_response_rectangular() -> None:
+    # scikit-rf 2.2 Network.impulse_response(window=None, pad=…, bandpass=True): same
+    # transform; ours is scaled by M/Σw (coherent gain) and not fftshifted.
+    g = _skrf_faulty_line(F401, 50.0, 0.0)
+    ours = distance_to_fault(Sweep(F401, g), 0.66, window="rect", pad=4)
+    m = ours.distance_m.size
+    net = skrf.Network(frequency=skrf.Frequency.from_f(F401, unit="Hz"),
+                       s=g.reshape(-1, 1, 1), z0=50)
+    t, ir = net.impulse_response(window=None, pad=m - F401.size, bandpass=True)
+    ir = np.fft.ifftshift(ir) * m / F401.size
+    t = np.fft.ifftshift(t)
+    np.testing.assert_allclose(ours.reflection, np.abs(ir), rtol=1e-9, atol=1e-12)
+    np.testing.assert_allclose(ours.distance_m[: m // 2], t[: m // 2] * 0.66 * C0 / 2,
+                               rtol=1e-9, atol=1e-12)
+
+
+def test_kaiser_peaks_agree_with_skrf_kaiser() -> None:
+    g = _skrf_faulty_line(F401, 50.0, 0.0)
+    ours = distance_to_fault(Sweep(F401, g), 0.66, window="kaiser", beta=6.0, pad=8)
+    net = skrf.Network(frequency=skrf.Frequency.from_f(F401, unit="Hz"),
+                       s=g.reshape(-1, 1, 1), z0=50)
+    t, ir = net.impulse_response(window=("kaiser", 6.0), pad=7 * F401.size, bandpass=True)
+    d = t * 0.66 * C0 / 2
+    for p in ours.peaks:
+        near = np.abs(d - p.distance_m) < ours.resolution_m
+        assert abs(d[near][np.argmax(np.abs(ir[near]))] - p.distance_m) < 0.2 * ours.resolution_m
+
+
+def test_nonuniform_grid_is_resampled_and_said() -> None:
+    f = np.sort(np.concatenate([np.linspace(1e6, 401e6, 300), [5.5e6, 77.7e6, 300.3e6]]))
+    r = distance_to_fault(_open_at(12.0, f), 0.66)
+    assert r.resampled and "resampled" in r.notes[0]
+    assert abs(r.peaks[0].distance_m - 12.0) < r.resolution_m
+
+
+def test_refusals_say_why() -> None:
+    with pytest.raises(AnalysisError, match="SWR only"):
+        distance_to_fault(Sweep(F401, np.full(401, 0.5 + 0j), has_phase=False), 0.66)
+    with pytest.raises(AnalysisError, match="at least 32 frequency points, this sweep has 20"):
+        distance_to_fault(_open_at(12.0, np.linspace(1e6, 401e6, 20)), 0.66)
+    with pytest.raises(AnalysisError, match=r"spans 0\.35 MHz.*sweep at least 9\.89 MHz wide"):
+        distance_to_fault(_open_at(12.0, np.linspace(14.0e6, 14.35e6, 201)), 0.66)
+    with pytest.raises(AnalysisError, match="velocity factor"):
+        distance_to_fault(_open_at(12.0), 1.3)
+    with pytest.raises(AnalysisError, match="needs a velocity factor or a cable"):
+        distance_to_fault(_open_at(12.0))
+    with pytest.raises(AnalysisError, match="unknown window 'hann'"):
+        distance_to_fault(_open_at(12.0), 0.66, window="hann")
+    with pytest.raises(AnalysisError, match="pad factor"):
+        distance_to_fault(_open_at(12.0), 0.66, pad=0)
+
+
+def test_to_dict_is_json_safe() -> None:
+    cable = CABLES["RG-58"]
+    g = _skrf_faulty_line(F401, 50.0, float(cable.alpha_np_per_m(np.array([201e6]))[0]))
+    d = distance_to_fault(Sweep(F401, g), cable=cable).to_dict(arrays=True)
+    text = json.dumps(d, allow_nan=False)
+    back = json.loads(text)
+    assert back["resolution_m"] == pytest.approx(0.2473, abs=5e-5)
+    assert len(back["peaks"]) == 3 and len(back["distance_m"]) == len(back["reflection"])
+    assert back["cable"] == "RG-58" and back["loss_compensated"] is True
