@@ -3,13 +3,14 @@
     analyze.py   mastwatch analyze FILE...        (rf core: metrics of sweep files)
     lines.py     mastwatch dtf / match            (feedline, distance to fault, matching)
     records.py   mastwatch db / serve / demo / recompute   (the records service)
+    outbox.py    mastwatch outbox add / list / push / retry (field uploads, offline first)
 """
 
 from __future__ import annotations
 
 import typer
 
-from mastwatch.cli import analyze, lines, records
+from mastwatch.cli import analyze, lines, outbox, records
 
 app = typer.Typer(
     name="mastwatch",
@@ -19,7 +20,7 @@ app = typer.Typer(
     pretty_exceptions_enable=False,
 )
 
-for module in (analyze, lines, records):
+for module in (analyze, lines, records, outbox):
     module.register(app)
 
 
