@@ -1,0 +1,205 @@
+"""Upload of one sweep file: parse, compute at both planes, store, all in one transaction.
+
+    bytes ─sha256─▶ already stored for this antenna? ─yes─▶ the existing sweep (200)
+      │ no
+      ├─ read_sweep (mastwatch.rf.parse)     SweepFormatError → 422 with line, nothing written
+      ├─ analyse: metrics at the measured plane and at the feedpoint (de-embedded)
+      ├─ INSERT sweep + sweep_metrics rows, post-ingest hooks (health verdict), COMMIT
+      └─ a concurrent upload of the same bytes won the race (unique antenna_id+sha256)?
+         → ROLLBACK and return that one (200): exactly one sweep, whatever the timing
+
+Extension point — post-ingest hooks: after the rows are flushed and before the commit,
+``mastwatch.services.health.judge_sweep(session, sweep_row)`` is called when that module
+defines it (issue 5), then every callable in :data:`POST_INGEST_HOOKS`. A hook may set
+``sweep_row.status`` / ``status_reasons`` and add rows (e.g. queue a notification); it
+runs inside the upload's transaction, so it must not do network I/O (queue instead).
+"""
+
+from __future__ import annotations
+
+import hashlib
+import importlib
+import importlib.util
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from datetime import datetime
+from typing import Any
+
+from sqlalchemy import select
+from sqlalchemy.exc import IntegrityError
+from sqlalchemy.orm import Session
+
+from mastwatch.db.models import BAND_METRIC_FIELDS, SweepMetrics
+from mastwatch.db.models import Sweep as SweepRow
+from mastwatch.db.types import utcnow
+from mastwatch.rf import lines
+from mastwatch.services import codec
+from mastwatch.services.analysis import Analysis, analyse
+from mastwatch.services.antennas import feedline_snapshot, get_antenna, to_rf_feedline
+from mastwatch.services.errors import Invalid
+from mastwatch.services.timeutil import to_utc
+
+PostIngestHook = Callable[[Session, SweepRow], None]
+POST_INGEST_HOOKS: list[PostIngestHook] = []
+"""Extra callables run after each new sweep is flushed (see the module docstring)."""
+
+HEALTH_MODULE = "mastwatch.services.health"
+
+
+@dataclass
+class UploadMeta:
+    """What the keeper says about the sweep (form fields of the upload)."""
+
+    measured_at: datetime | None = None  # naive: the site's local time; None: from the file
+    reference_plane: str = "feedpoint"
+    operator: str = ""
+    conditions: str = ""
+    notes: str = ""
+    columns: str | None = None  # CSV column spec passed to the parser, if any
+
+
+@dataclass
+class IngestResult:
+    sweep: SweepRow
+    created: bool
+    extra: dict[str, Any] = field(default_factory=dict)
+
+
+def parse_upload(data: bytes, filename: str | None, columns: str | None = None) -> Any:
+    """The file as an ``rf.Sweep`` (SweepFormatError with the line when it is not one)."""
+    from mastwatch.rf.parse import read_sweep
+
+    return read_sweep(data, filename, columns=columns)
+
+
+def find_existing(session: Session, antenna_id: int, sha256: str) -> SweepRow | None:
+    return session.scalar(
+        select(SweepRow).where(SweepRow.antenna_id == antenna_id, SweepRow.sha256 == sha256)
+    )
+
+
+def ingest_sweep(
+    session: Session,
+    antenna_id: int,
+    data: bytes,
+    filename: str,
+    meta: UploadMeta,
+) -> IngestResult:
+    """Store one sweep file for an antenna (idempotent per file content)."""
+    if meta.reference_plane not in ("feedpoint", "line_input"):
+        raise Invalid("reference_plane must be 'feedpoint' or 'line_input'")
+    antenna = get_antenna(session, antenna_id)
+    sha256 = hashlib.sha256(data).hexdigest()
+    existing = find_existing(session, antenna.id, sha256)
+    if existing is not None:
+        return IngestResult(existing, created=False)
+    site = antenna.site
+    feedline: lines.Feedline | None = None
+    if meta.reference_plane == "line_input" and antenna.feedline is not None:
+        feedline = to_rf_feedline(antenna.feedline)
+    # End the read transaction before the (slow) computation: on SQLite a transaction
+    # that read before another writer committed could not be upgraded to a write later.
+    session.commit()
+
+    sweep = parse_upload(data, filename, meta.columns)
+    analysis = analyse(sweep, meta.reference_plane, feedline, site.itu_region)
+    if meta.measured_at is not None:
+        measured_at, source = to_utc(meta.measured_at, site.timezone), "form"
+    elif sweep.source.measured_at is not None:
+        measured_at, source = to_utc(sweep.source.measured_at, site.timezone), "file"
+    else:
+        measured_at, source = utcnow(), "upload"
+
+    row = build_sweep_row(antenna.id, data, filename, meta, sweep, analysis, feedline)
+    row.measured_at, row.measured_at_source = measured_at, source
+    try:
+        session.add(row)
+        session.flush()
+        session.add_all(metrics_rows(row, analysis))
+        session.flush()
+        run_post_ingest_hooks(session, row)
+        session.commit()
+    except IntegrityError:
+        session.rollback()
+        winner = find_existing(session, antenna.id, sha256)
+        if winner is None:
+            raise
+        return IngestResult(winner, created=False)
+    return IngestResult(row, created=True)
+
+
+def build_sweep_row(
+    antenna_id: int,
+    data: bytes,
+    filename: str,
+    meta: UploadMeta,
+    sweep: Any,
+    analysis: Analysis,
+    feedline: lines.Feedline | None,
+) -> SweepRow:
+    measured = analysis.measured.metrics.to_dict()
+    at_feed = analysis.feedpoint
+    return SweepRow(
+        antenna_id=antenna_id,
+        reference_plane=meta.reference_plane,
+        operator=meta.operator,
+        conditions=meta.conditions,
+        notes=meta.notes,
+        filename=filename,
+        file_format=sweep.source.format,
+        original_size=len(data),
+        sha256=hashlib.sha256(data).hexdigest(),
+        original=codec.compress(data),
+        freq_hz=codec.pack_freq(sweep.freq_hz),
+        gamma=codec.pack_gamma(sweep.gamma),
+        gamma_feedpoint=(
+            codec.pack_gamma(at_feed.sweep.gamma)
+            if at_feed is not None and meta.reference_plane == "line_input"
+            else None
+        ),
+        z0=sweep.z0,
+        has_phase=sweep.has_phase,
+        points=sweep.points,
+        f_start_hz=sweep.f_start_hz,
+        f_stop_hz=sweep.f_stop_hz,
+        min_swr=measured["min_swr"],
+        min_swr_hz=measured["min_swr_hz"],
+        feedline_snapshot=feedline_snapshot(feedline) if feedline is not None else None,
+        summary=analysis.summary(),
+        status=None,
+        status_reasons=[],
+    )
+
+
+def metrics_rows(row: SweepRow, analysis: Analysis) -> list[SweepMetrics]:
+    """One row per band and plane, with the sweep's antenna and time repeated (trend index)."""
+    out = []
+    for view in analysis.planes():
+        for band in view.metrics.bands:
+            values = band.to_dict()
+            out.append(
+                SweepMetrics(
+                    sweep_id=row.id,
+                    antenna_id=row.antenna_id,
+                    measured_at=row.measured_at,
+                    band=band.band,
+                    plane=view.plane,
+                    **{f: values[f] for f in BAND_METRIC_FIELDS},
+                )
+            )
+    return out
+
+
+def _health_judge() -> PostIngestHook | None:
+    if importlib.util.find_spec(HEALTH_MODULE) is None:
+        return None
+    judge: PostIngestHook | None = getattr(
+        importlib.import_module(HEALTH_MODULE), "judge_sweep", None
+    )
+    return judge
+
+
+def run_post_ingest_hooks(session: Session, row: SweepRow) -> None:
+    judge = _health_judge()
+    for hook in ([judge] if judge else []) + POST_INGEST_HOOKS:
+        hook(session, row)

@@ -1,0 +1,78 @@
+"""Re-derive every metrics row from the stored arrays (when a method improves).
+
+Sweeps are read in batches by id (arrays undeferred for that batch only); for each,
+the feedpoint view is redone from the measured Γ and the sweep's own feedline
+snapshot, the metrics rows are replaced and the summary columns updated. Each batch
+is one transaction, so an interrupted run leaves every sweep either old or new.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+
+from sqlalchemy import delete, func, select
+from sqlalchemy.orm import Session, undefer
+
+from mastwatch.db.models import Sweep as SweepRow
+from mastwatch.db.models import SweepMetrics
+from mastwatch.services import codec
+from mastwatch.services.analysis import analyse
+from mastwatch.services.antennas import feedline_from_snapshot
+from mastwatch.services.ingest import metrics_rows
+
+DEFAULT_BATCH = 100
+
+
+def count_sweeps(session: Session) -> int:
+    return session.scalar(select(func.count()).select_from(SweepRow)) or 0
+
+
+def recompute_sweep(session: Session, row: SweepRow) -> None:
+    sweep = codec.measured_sweep(row)
+    snap = row.feedline_snapshot
+    feedline = (
+        feedline_from_snapshot(snap) if snap and row.reference_plane == "line_input" else None
+    )
+    analysis = analyse(sweep, row.reference_plane, feedline, row.antenna.site.itu_region)
+    measured = analysis.measured.metrics.to_dict()
+    row.min_swr, row.min_swr_hz = measured["min_swr"], measured["min_swr_hz"]
+    row.summary = analysis.summary()
+    at_feed = analysis.feedpoint
+    row.gamma_feedpoint = (
+        codec.pack_gamma(at_feed.sweep.gamma)
+        if at_feed is not None and row.reference_plane == "line_input"
+        else None
+    )
+    session.execute(delete(SweepMetrics).where(SweepMetrics.sweep_id == row.id))
+    session.add_all(metrics_rows(row, analysis))
+
+
+def recompute_all(
+    session: Session,
+    *,
+    batch_size: int = DEFAULT_BATCH,
+    progress: Callable[[int], None] | None = None,
+) -> int:
+    """Recompute every sweep; ``progress(n)`` after each batch of n. Returns the count."""
+    done = 0
+    last_id = 0
+    while True:
+        rows = list(
+            session.scalars(
+                select(SweepRow)
+                .where(SweepRow.id > last_id)
+                .order_by(SweepRow.id)
+                .limit(batch_size)
+                .options(undefer(SweepRow.freq_hz), undefer(SweepRow.gamma))
+            )
+        )
+        if not rows:
+            return done
+        for row in rows:
+            recompute_sweep(session, row)
+        session.commit()
+        session.expunge_all()  # keep memory flat over many batches
+        last_id = rows[-1].id
+        done += len(rows)
+        if progress is not None:
+            progress(len(rows))

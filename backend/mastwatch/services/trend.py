@@ -1,0 +1,80 @@
+"""Trend of one per-band metric of one antenna over time, from sweep_metrics rows alone.
+
+One indexed range scan (``ix_sweep_metrics_trend``: antenna_id, band, plane,
+measured_at) selecting three columns: the sweep arrays are never read (a test checks
+the SQL). The antenna's events (its own and its site's) come along for plot markers.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from datetime import datetime
+from typing import Any
+
+from sqlalchemy import select
+from sqlalchemy.orm import Session
+
+from mastwatch.db.models import Event, SweepMetrics
+from mastwatch.rf import bands as rf_bands
+from mastwatch.rf.metric_table import MetricSpec, get_metric
+from mastwatch.services.antennas import get_antenna
+from mastwatch.services.errors import Invalid
+from mastwatch.services.events import antenna_events
+
+
+@dataclass
+class Trend:
+    antenna_id: int
+    band: str
+    metric: MetricSpec
+    plane: str
+    points: list[dict[str, Any]]
+    events: list[Event]
+
+
+def trend_points(
+    session: Session,
+    antenna_id: int,
+    band: str,
+    field: str,
+    plane: str,
+    since: datetime | None = None,
+    until: datetime | None = None,
+) -> list[dict[str, Any]]:
+    column = getattr(SweepMetrics, field)
+    query = select(SweepMetrics.sweep_id, SweepMetrics.measured_at, column).where(
+        SweepMetrics.antenna_id == antenna_id,
+        SweepMetrics.band == band,
+        SweepMetrics.plane == plane,
+    )
+    if since is not None:
+        query = query.where(SweepMetrics.measured_at >= since)
+    if until is not None:
+        query = query.where(SweepMetrics.measured_at <= until)
+    query = query.order_by(SweepMetrics.measured_at, SweepMetrics.sweep_id)
+    return [
+        {"sweep_id": sid, "measured_at": at, "value": value}
+        for sid, at, value in session.execute(query)
+    ]
+
+
+def antenna_trend(
+    session: Session,
+    antenna_id: int,
+    band: str,
+    metric: str,
+    plane: str = "feedpoint",
+    since: datetime | None = None,
+    until: datetime | None = None,
+) -> Trend:
+    antenna = get_antenna(session, antenna_id)
+    try:
+        spec = get_metric(metric)
+        band_name = rf_bands.get_band(band, antenna.site.itu_region).name
+    except ValueError as exc:
+        raise Invalid(str(exc)) from exc
+    if plane not in ("measured", "feedpoint"):
+        raise Invalid("plane must be 'measured' or 'feedpoint'")
+    points = trend_points(session, antenna.id, band_name, spec.field, plane, since, until)
+    events = antenna_events(session, antenna.id, since=since, until=until)
+    return Trend(antenna.id, band_name, spec, plane, points, events)

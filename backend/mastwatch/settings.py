@@ -1,0 +1,99 @@
+"""The one settings object of the app (pydantic-settings, environment ``MASTWATCH_*``).
+
+Settings are passed in, never imported as a module-level global: ``create_app(settings)``
+takes one, and the cached :func:`get_settings` builds the default one from the
+environment for the CLI and for ``uvicorn --factory``. docs/settings.md lists every
+field; a test keeps that page complete.
+"""
+
+from __future__ import annotations
+
+import zoneinfo
+from functools import lru_cache
+from pathlib import Path
+from typing import Literal
+
+from pydantic import Field, field_validator, model_validator
+from pydantic_settings import BaseSettings, SettingsConfigDict
+
+from mastwatch.rf.limits import MAX_FILE_BYTES
+
+
+class Settings(BaseSettings):
+    """Everything an admin can configure. Environment variable = ``MASTWATCH_`` + name."""
+
+    model_config = SettingsConfigDict(env_prefix="MASTWATCH_", extra="ignore")
+
+    data_dir: Path = Field(
+        default=Path("data"),
+        description="Directory for the SQLite database and other local files.",
+    )
+    database_url: str = Field(
+        default="",
+        description=(
+            "SQLAlchemy URL of the database. Default: SQLite file "
+            "<data_dir>/mastwatch.sqlite3. PostgreSQL: postgresql+psycopg://user@host/db."
+        ),
+    )
+    max_upload_bytes: int = Field(
+        default=MAX_FILE_BYTES,
+        gt=0,
+        le=MAX_FILE_BYTES,
+        description="Largest sweep file accepted by an upload (bytes); 413 above it.",
+    )
+    timezone: str = Field(
+        default="UTC",
+        description="IANA time zone used where a site has none of its own.",
+    )
+    default_region: Literal[1, 2, 3] = Field(
+        default=1, description="ITU region preselected for new sites (band plan)."
+    )
+    demo: bool = Field(
+        default=False,
+        description="Demo mode: relaxes the checks that protect a real installation.",
+    )
+    stale_after_days: int = Field(
+        default=180,
+        gt=0,
+        description="A sweep older than this many days is shown as stale on the board.",
+    )
+    # -- notifications (issue 5 reads these; all off by default) ------------------------
+    webhook_url: str | None = Field(
+        default=None, description="URL to POST a JSON message to when a verdict changes."
+    )
+    webhook_secret: str | None = Field(
+        default=None, description="HMAC-SHA256 secret that signs webhook bodies."
+    )
+    smtp_host: str | None = Field(default=None, description="SMTP server for e-mail alerts.")
+    smtp_port: int = Field(default=25, description="SMTP server port.")
+    smtp_from: str | None = Field(default=None, description="Sender address of e-mail alerts.")
+    smtp_to: list[str] = Field(
+        default_factory=list, description="Recipients of e-mail alerts (JSON list in env)."
+    )
+
+    @field_validator("timezone")
+    @classmethod
+    def _known_zone(cls, value: str) -> str:
+        try:
+            zoneinfo.ZoneInfo(value)
+        except (zoneinfo.ZoneInfoNotFoundError, ValueError) as exc:
+            raise ValueError(f"unknown IANA time zone {value!r} (e.g. 'Europe/Berlin')") from exc
+        return value
+
+    @model_validator(mode="after")
+    def _defaults_and_safety(self) -> Settings:
+        if not self.database_url:
+            self.database_url = f"sqlite:///{(self.data_dir / 'mastwatch.sqlite3').resolve()}"
+        # A webhook without a signature lets anyone forge alerts: refused for real use.
+        if self.webhook_url and not self.webhook_secret and not self.demo:
+            raise ValueError(
+                "MASTWATCH_WEBHOOK_URL is set without MASTWATCH_WEBHOOK_SECRET; "
+                "set a secret so receivers can check the signature"
+            )
+        return self
+
+
+@lru_cache
+def get_settings() -> Settings:
+    """The settings from the environment, built once per process."""
+    return Settings()
