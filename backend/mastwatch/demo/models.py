@@ -276,7 +276,7 @@ class Yagi:
 
         # The element resonates above f0 (it is short); G rises from 1/R at f_el = f0 down
         # through 1/z0 as the element gets shorter.
-        f_el = brentq(conductance_error, self.f0_hz, self.f0_hz * 1.5, xtol=1e-9 * self.f0_hz)
+        f_el = brentq(conductance_error, self.f0_hz, self.f0_hz * 1.5, xtol=1e-6, rtol=1e-15)
         return self._element(float(f_el))
 
     @cached_property

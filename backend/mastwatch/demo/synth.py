@@ -234,7 +234,8 @@ def _measure(gamma: ComplexArray, noise: float, erratic: float, seed: int) -> Co
         g[bad] = np.sqrt(rng.random(k)) * 0.95 * np.exp(2j * np.pi * rng.random(k))
     mag = np.abs(g)
     over = mag > MAX_SYNTH_GAMMA
-    g[over] *= MAX_SYNTH_GAMMA / mag[over]
+    # One ulp inside, so rounding of the product cannot land above the limit.
+    g[over] *= np.nextafter(MAX_SYNTH_GAMMA, 0.0) / mag[over]
     return g
 
 
