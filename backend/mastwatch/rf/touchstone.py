@@ -223,16 +223,13 @@ class _Block:
 
     def line_of(self, row: int) -> int | None:
         if self._line_numbers is None:
-            # Fast path: one row per non-empty line from ``start`` on (what loadtxt read).
-            nums: list[int] = []
-            for k in range(self._start, len(self._lines)):
-                if self._lines[k].partition("!")[0].strip():
-                    nums.append(k + 1)
-                    if len(nums) > row:
-                        break
-            self._line_numbers = nums if len(nums) > row else None
-            return nums[row] if len(nums) > row else None
-        return self._line_numbers[row] if row < len(self._line_numbers) else None
+            # Fast path: one row per non-empty line from ``start`` on (what loadtxt read);
+            # only worked out when an error needs a line number.
+            self._line_numbers = [
+                k + 1 for k in range(self._start, len(self._lines))
+                if self._lines[k].partition("!")[0].strip()
+            ]
+        return self._line_numbers[row] if 0 <= row < len(self._line_numbers) else None
 
 
 def _fast_rows(lines: list[str], start: int, stop: int, width: int) -> np.ndarray | None:
