@@ -1,0 +1,45 @@
+// Distance to fault: reflection magnitude against distance along the line, for a sweep
+// and for the baseline's, so a new bump (a wet connector, a crushed cable) stands out.
+
+import { BASELINE_COLOUR, baseLayout, config, loadPlotly, toCsv } from "./common.js";
+
+/** The distance axis (m) and the magnitude (dB) of a /sweeps/{id}/dtf answer. */
+export function dtfArrays(body) {
+  const d = body.distance_m ?? body.distances_m ?? body.distance ?? [];
+  let y = body.magnitude_db ?? body.response_db ?? body.db;
+  if (!y) {
+    const mag = body.magnitude ?? body.response ?? [];
+    y = mag.map((m) => (m > 0 ? 20 * Math.log10(m) : null));
+  }
+  const peaks = body.peaks ?? body.faults ?? [];
+  return { d, y, peaks };
+}
+
+export async function drawDtf(el, current, baseline, { filename = "dtf" } = {}) {
+  const Plotly = await loadPlotly();
+  const traces = [];
+  if (baseline) {
+    traces.push({ type: "scatter", mode: "lines", name: "baseline", x: baseline.d, y: baseline.y,
+      line: { color: BASELINE_COLOUR, dash: "dash", width: 1.4 },
+      hovertemplate: "%{x:.2f} m<br>%{y:.1f} dB<extra>baseline</extra>" });
+  }
+  traces.push({ type: "scatter", mode: "lines", name: "this sweep", x: current.d, y: current.y,
+    line: { color: "#2f5d62", width: 2 }, hovertemplate: "%{x:.2f} m<br>%{y:.1f} dB<extra>this sweep</extra>" });
+  const px = current.peaks.map((p) => p.distance_m ?? p.d).filter(Number.isFinite);
+  const py = current.peaks.map((p) => p.magnitude_db ?? p.db ?? null);
+  if (px.length) {
+    traces.push({ type: "scatter", mode: "markers", name: "reflections", x: px, y: py,
+      marker: { symbol: "triangle-down", size: 10, color: "#a8382f" },
+      hovertemplate: "reflection at %{x:.2f} m<br>%{y:.1f} dB<extra></extra>" });
+  }
+  const layout = baseLayout({
+    xaxis: { title: { text: "Distance along the line (m)" }, gridcolor: "#ece8df" },
+    yaxis: { title: { text: "Reflection (dB)" }, gridcolor: "#ece8df" },
+  });
+  await Plotly.react(el, traces, layout, config(filename));
+}
+
+export function dtfCsv(current, baseline) {
+  const rows = current.d.map((d, i) => [d, current.y[i], baseline ? baseline.y[i] ?? "" : ""]);
+  return toCsv(["distance_m", "this_sweep_db", "baseline_db"], rows);
+}

@@ -1,0 +1,211 @@
+"""Browser-test fixtures: a live Mastwatch server on a free port and Debian's Chromium.
+
+    live_server   uvicorn in a daemon thread serving create_app(settings) on a fresh
+                  SQLite database (migrated to head) under a temporary data directory
+    club          the records the tests look at: the demo club when its loader exists,
+                  else a small club seeded through the API (so the tests see the API the
+                  way the pages do)
+    page          pytest-playwright's page, with console errors and dialogs recorded
+                  (``page_log``); every test asserts the console stayed clean
+
+Chromium is launched from /usr/bin/chromium with the flags of docs RECIPES (never
+``playwright install``); without it every browser test is skipped with the reason.
+"""
+
+from __future__ import annotations
+
+import shutil
+import socket
+import threading
+import time
+from collections.abc import Iterator
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import httpx
+import pytest
+
+CHROMIUM = "/usr/bin/chromium"
+CHROMIUM_ARGS = [
+    "--no-sandbox",
+    "--disable-gpu",
+    "--disable-background-networking",
+    "--disable-component-update",
+    "--disable-sync",
+    "--no-first-run",
+    "--disable-quic",
+]
+ARTIFACTS = Path(__file__).parent / "artifacts" / "screenshots"
+
+
+def pytest_collection_modifyitems(config: pytest.Config, items: list[pytest.Item]) -> None:
+    here = Path(__file__).parent
+    have = Path(CHROMIUM).exists() or shutil.which("chromium")
+    for item in items:
+        if here in Path(str(item.fspath)).parents:
+            item.add_marker(pytest.mark.browser)
+            if not have:
+                item.add_marker(pytest.mark.skip(reason=f"no Chromium at {CHROMIUM} "
+                                                 "(apt-get install -y chromium)"))
+
+
+@pytest.fixture(scope="session")
+def browser_type_launch_args(browser_type_launch_args: dict[str, Any]) -> dict[str, Any]:
+    return {**browser_type_launch_args, "executable_path": CHROMIUM, "args": CHROMIUM_ARGS}
+
+
+def _free_port() -> int:
+    with socket.socket() as s:
+        s.bind(("127.0.0.1", 0))
+        return int(s.getsockname()[1])
+
+
+@dataclass
+class LiveServer:
+    url: str
+    api: httpx.Client
+
+
+@pytest.fixture(scope="session")
+def live_server(tmp_path_factory: pytest.TempPathFactory) -> Iterator[LiveServer]:
+    import uvicorn
+
+    from mastwatch.api.app import create_app
+    from mastwatch.db.migrate import upgrade
+    from mastwatch.settings import Settings
+
+    data = tmp_path_factory.mktemp("browser-data")
+    settings = Settings(data_dir=data, demo=True)
+    upgrade(settings.database_url)
+    app = create_app(settings)
+    port = _free_port()
+    server = uvicorn.Server(
+        uvicorn.Config(app, host="127.0.0.1", port=port, log_level="warning", lifespan="on")
+    )
+    thread = threading.Thread(target=server.run, daemon=True)
+    thread.start()
+    deadline = time.monotonic() + 30
+    while not server.started:
+        if time.monotonic() > deadline or not thread.is_alive():
+            raise RuntimeError("the live server did not start")
+        time.sleep(0.05)
+    url = f"http://127.0.0.1:{port}"
+    with httpx.Client(base_url=url + "/api/v1", timeout=60) as client:
+        yield LiveServer(url=url, api=client)
+    server.should_exit = True
+    thread.join(timeout=10)
+
+
+@pytest.fixture(scope="session")
+def base_url(live_server: LiveServer) -> str:
+    return live_server.url
+
+
+@dataclass
+class Club:
+    """What the tests know about the records on the server."""
+
+    sites: list[dict[str, Any]] = field(default_factory=list)
+    antennas: list[dict[str, Any]] = field(default_factory=list)
+    # antenna id → its sweeps, newest first
+    sweeps: dict[int, list[dict[str, Any]]] = field(default_factory=dict)
+    hostile_name: str = ""
+
+
+HOSTILE = '<script>window.__pwned = 1; alert("x")</script><img src=x onerror="window.__pwned=2">'
+
+
+def _ok(r: httpx.Response) -> dict[str, Any]:
+    where = f"{r.request.method} {r.request.url}"
+    assert r.status_code in (200, 201), f"{where}: {r.status_code} {r.text}"
+    return dict(r.json())
+
+
+def _seed(api: httpx.Client) -> None:
+    """A small invented club through the API: two sites, four antennas, a storm."""
+    from tests.browser.sweepfiles import touchstone
+
+    hill = _ok(api.post("/sites", json={"name": "Q0HRS Hilltop", "itu_region": 1,
+                                          "locator": "JO01aa", "timezone": "UTC",
+                                          "notes": "repeater site"}))
+    club = _ok(api.post("/sites", json={"name": f"Clubhouse {HOSTILE}", "itu_region": 1,
+                                          "timezone": "UTC", "notes": ""}))
+    plan = [
+        (hill, "40 m dipole", "dipole", ["40m"], 7.1e6),
+        (hill, "20 m vertical", "vertical", ["20m"], 14.15e6),
+        (club, f"Loop {HOSTILE}", "loop", ["80m"], 3.65e6),
+        (club, "2 m j-pole", "j-pole", ["2m"], 145.0e6),
+    ]
+    dates = ["2025-03-01T10:00:00Z", "2025-09-01T10:00:00Z", "2026-03-01T10:00:00Z"]
+    for site, name, kind, bands, f0 in plan:
+        ant = _ok(api.post("/antennas", json={"site_id": site["id"], "name": name, "kind": kind,
+                                                "bands": bands, "installed_on": "2025-02-01",
+                                                "notes": ""}))
+        for i, when in enumerate(dates):
+            # Each later sweep drifts a little lower in frequency (an ageing element).
+            data = touchstone(f0 * (1 - 0.004 * i), r_ohm=50 + 6 * i, comment=f"{name} #{i}")
+            _ok(api.post(f"/antennas/{ant['id']}/sweeps",
+                         files={"file": (f"{kind}-{i}.s1p", data, "application/octet-stream")},
+                         data={"measured_at": when, "reference_plane": "feedpoint",
+                               "conditions": "dry", "operator": "Q0HRS"}))
+    _ok(api.post(f"/sites/{hill['id']}/events", json={
+        "kind": "storm", "occurred_at": "2025-12-01T00:00:00Z", "title": "Winter storm",
+        "notes": "gusts"}))
+
+
+@pytest.fixture(scope="session")
+def club(live_server: LiveServer) -> Club:
+    api = live_server.api
+    if not api.get("/sites").json():
+        _seed(api)
+    out = Club(hostile_name=HOSTILE)
+    out.sites = list(_items(api.get("/sites").json()))
+    out.antennas = list(_items(api.get("/antennas").json()))
+    for a in out.antennas:
+        out.sweeps[a["id"]] = list(_items(api.get(f"/antennas/{a['id']}/sweeps").json()))
+    return out
+
+
+def _items(body: Any) -> list[dict[str, Any]]:
+    return list(body["items"] if isinstance(body, dict) else body)
+
+
+@dataclass
+class PageLog:
+    errors: list[str] = field(default_factory=list)
+    dialogs: list[str] = field(default_factory=list)
+
+
+@pytest.fixture
+def page_log(page: Any) -> PageLog:
+    log = PageLog()
+
+    def on_console(msg: Any) -> None:
+        if msg.type == "error":
+            log.errors.append(msg.text)
+
+    def on_dialog(dialog: Any) -> None:
+        log.dialogs.append(dialog.message)
+        dialog.dismiss()
+
+    page.on("console", on_console)
+    page.on("pageerror", lambda exc: log.errors.append(str(exc)))
+    page.on("dialog", on_dialog)
+    return log
+
+
+def shot(page: Any, name: str) -> Path:
+    """Save a full-page screenshot under artifacts/screenshots/ and return its path."""
+    ARTIFACTS.mkdir(parents=True, exist_ok=True)
+    path = ARTIFACTS / f"{name}.png"
+    page.screenshot(path=str(path), full_page=True)
+    return path
+
+
+def wait_ready(page: Any, path_prefix: str = "") -> None:
+    """Wait until the router has rendered the current page (main[data-ready])."""
+    page.wait_for_selector("main[data-ready]", timeout=30_000)
+    if path_prefix:
+        ready = page.get_attribute("main", "data-ready") or ""
+        assert ready.startswith(path_prefix), ready
