@@ -289,8 +289,9 @@ class _Model:
             v, t = self._seg_min(k1, 0.0, tb)
             if v < best[0]:
                 best = (v, k1, t)
-        v, k, t = best
-        return (v, float(f[k] + t * self.df[k]), k, t)
+        _, k, t = best
+        g = self.g[k] + t * (self.g[k + 1] - self.g[k])  # |Γ|² again, free of cancellation
+        return (abs(complex(g)) ** 2, float(f[k] + t * self.df[k]), k, t)
 
     def span(self, k: int, t: float, m2: float) -> tuple[float, float, bool, bool]:
         """The contiguous span where |Γ|² ≤ m2 around the point (k, t), which lies inside it.
