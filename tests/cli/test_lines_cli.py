@@ -1,0 +1,116 @@
+"""``mastwatch dtf`` and ``mastwatch match`` end to end on files from the Touchstone writer."""
+
+from __future__ import annotations
+
+import importlib.util
+import json
+from pathlib import Path
+
+import numpy as np
+import pytest
+from typer.testing import CliRunner
+
+from mastwatch.cli import app
+from mastwatch.rf.lines import CABLES, Feedline, embed
+from mastwatch.rf.sweep import Sweep
+from mastwatch.rf.touchstone import write_touchstone
+
+runner = CliRunner()
+
+
+@pytest.fixture
+def line_file(tmp_path: Path) -> Path:
+    """150 Ω load at the end of 23.4 m of RG-58, swept 1–401 MHz at the radio end."""
+    f = np.linspace(1e6, 401e6, 401)
+    feed = Sweep.from_impedance(f, np.full(f.size, 150.0 + 0j))
+    p = tmp_path / "line.s1p"
+    p.write_text(write_touchstone(embed(feed, Feedline(CABLES["RG-58"], 23.4))))
+    return p
+
+
+@pytest.fixture
+def rlc_file(tmp_path: Path) -> Path:
+    f = np.linspace(6.5e6, 7.7e6, 241)
+    w = 2 * np.pi * f
+    p = tmp_path / "rlc.s1p"
+    z = 18 + 1j * (w * 4e-6 - 1 / (w * 130e-12))  # series RLC near 7.1 MHz
+    p.write_text(write_touchstone(Sweep.from_impedance(f, z)))
+    return p
+
+
+def test_dtf_prints_resolution_range_and_the_end(line_file: Path) -> None:
+    r = runner.invoke(app, ["dtf", str(line_file), "--cable", "RG-58"])
+    assert r.exit_code == 0, r.output
+    assert "resolution 0.247 m" in r.output and "range 98.93 m" in r.output
+    assert "23.40" in r.output
+    assert "Never climb alone" in r.output
+
+
+def test_dtf_json_and_vf_override(line_file: Path) -> None:
+    r = runner.invoke(app, ["dtf", str(line_file), "--vf", "0.66", "--window", "rect", "--json"])
+    assert r.exit_code == 0, r.output
+    doc = json.loads(r.output)
+    assert doc["window"] == "rect" and doc["loss_compensated"] is False
+    assert any(abs(p["distance_m"] - 23.4) < doc["resolution_m"] for p in doc["peaks"])
+
+
+def test_dtf_html_plot(line_file: Path, tmp_path: Path) -> None:
+    out = tmp_path / "dtf.html"
+    r = runner.invoke(app, ["dtf", str(line_file), "--cable", "RG-58", "--plot", str(out)])
+    assert r.exit_code == 0, r.output
+    text = out.read_text()
+    assert "<html" in text and "plotly" in text.lower() and "distance along the line" in text
+
+
+def test_dtf_png_without_kaleido_says_use_html(line_file: Path, tmp_path: Path) -> None:
+    if importlib.util.find_spec("kaleido") is not None:
+        pytest.skip("kaleido is installed here; the PNG path is exercised for real")
+    r = runner.invoke(app, ["dtf", str(line_file), "--cable", "RG-58",
+                            "--plot", str(tmp_path / "x.png")])
+    assert r.exit_code == 1
+    assert "kaleido" in r.output and ".html" in r.output
+
+
+def test_dtf_errors(line_file: Path, tmp_path: Path) -> None:
+    r = runner.invoke(app, ["dtf", str(line_file)])
+    assert r.exit_code == 2 and "--cable or --vf" in r.output
+    r = runner.invoke(app, ["dtf", str(line_file), "--cable", "RG-999"])
+    assert r.exit_code == 2 and "unknown cable type" in r.output
+    svg = str(tmp_path / "a.svg")
+    r = runner.invoke(app, ["dtf", str(line_file), "--vf", "0.66", "--plot", svg])
+    assert r.exit_code == 1 and ".html or .png" in r.output
+    f = np.linspace(14.0e6, 14.35e6, 101)
+    narrow = tmp_path / "narrow.s1p"
+    narrow.write_text(write_touchstone(Sweep.from_impedance(f, np.full(f.size, 60 + 0j))))
+    r = runner.invoke(app, ["dtf", str(narrow), "--cable", "RG-213"])
+    assert r.exit_code == 1 and f"error: {narrow}: the sweep spans 0.35 MHz" in r.output
+
+
+def test_match_prints_networks_and_bandwidth(rlc_file: Path) -> None:
+    r = runner.invoke(app, ["match", str(rlc_file), "--at", "7.1MHz"])
+    assert r.exit_code == 0, r.output
+    assert "inductive" in r.output and "kHz" in r.output and "series at load" in r.output
+
+
+def test_match_json_each_network_matches(rlc_file: Path) -> None:
+    r = runner.invoke(app, ["match", str(rlc_file), "--at", "7100kHz", "--json"])
+    assert r.exit_code == 0, r.output
+    doc = json.loads(r.output)
+    assert doc["at_hz"] == 7.1e6 and len(doc["networks"]) == 2
+    for n in doc["networks"]:
+        bw = n["swr_bandwidth_2"]
+        assert bw["low_hz"] < 7.1e6 < bw["high_hz"]
+
+
+def test_match_through_feedline_and_errors(line_file: Path, rlc_file: Path) -> None:
+    r = runner.invoke(app, ["match", str(line_file), "--at", "14.2MHz",
+                            "--feedline", "RG-58:23.4m", "--json"])
+    assert r.exit_code == 0, r.output
+    doc = json.loads(r.output)
+    # de-embedded back to the 150 Ω load (round trip through the Touchstone file)
+    assert doc["load_r_ohm"] == pytest.approx(150.0, rel=1e-3)
+    assert doc["feedline"]["cable"] == "RG-58"
+    r = runner.invoke(app, ["match", str(rlc_file), "--at", "9MHz"])
+    assert r.exit_code == 1 and "error:" in r.output
+    r = runner.invoke(app, ["match", str(rlc_file), "--at", "fast"])
+    assert r.exit_code == 2 and "not a frequency" in r.output
