@@ -114,3 +114,34 @@ def test_match_through_feedline_and_errors(line_file: Path, rlc_file: Path) -> N
     assert r.exit_code == 1 and "error:" in r.output
     r = runner.invoke(app, ["match", str(rlc_file), "--at", "fast"])
     assert r.exit_code == 2 and "not a frequency" in r.output
+
+
+def test_analyze_with_feedline_reports_the_feedpoint(line_file: Path) -> None:
+    r = runner.invoke(app, ["analyze", str(line_file), "--feedline", "RG-58:23.4m",
+                            "--band", "20m", "--at", "14.2MHz", "--json"])
+    assert r.exit_code == 0, r.output
+    doc = json.loads(r.output)[0]
+    feed = doc["feedpoint"]
+    assert set(feed) == set(doc) - {"file", "feedpoint", "feedline"}
+    # the 150 Ω load is SWR 3 at the feedpoint; the line's loss flatters it at the radio
+    assert feed["at"][0]["swr"] == pytest.approx(3.0, rel=1e-3)
+    assert doc["at"][0]["swr"] < 2.8
+    assert doc["feedline"]["cable"] == "RG-58" and doc["feedline"]["length_m"] == 23.4
+    assert doc["feedline"]["matched_loss_db_stop"] > doc["feedline"]["matched_loss_db_start"]
+    text = runner.invoke(app, ["analyze", str(line_file), "--cable", "RG-58",
+                               "--length", "76.77ft", "--band", "20m"])
+    assert text.exit_code == 0, text.output
+    assert "at the feedpoint (through RG-58, 23.3995 m)" in text.output
+
+
+def test_analyze_feedline_option_errors(line_file: Path) -> None:
+    r = runner.invoke(app, ["analyze", str(line_file), "--cable", "RG-58"])
+    assert r.exit_code == 2 and "--cable and --length go together" in r.output
+    r = runner.invoke(app, ["analyze", str(line_file), "--feedline", "RG-58"])
+    assert r.exit_code == 2 and "CABLE:LENGTH" in r.output
+    r = runner.invoke(app, ["analyze", str(line_file), "--feedline", "RG-58:3m",
+                            "--cable", "RG-58", "--length", "3m"])
+    assert r.exit_code == 2 and "not both" in r.output
+    # far too much assumed loss: the feedpoint would look active, and the report says so
+    r = runner.invoke(app, ["analyze", str(line_file), "--feedline", "RG-174:200m"])
+    assert r.exit_code == 0 and "|Γ| exceeds 1" in r.output

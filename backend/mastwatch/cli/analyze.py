@@ -184,24 +184,23 @@ def render_analysis(console: Console, a: Analysis) -> None:
     console.print(t)
 
     if m.bands:
-        columns = [
-            ("min_swr", ".2f"), ("min_swr_hz", ".4f"), ("swr_center", ".2f"),
-            ("r_center", ".1f"), ("x_center", ".1f"), ("return_loss_center", ".1f"),
-            ("usable_fraction_2", ".0%"), ("resonance", ".4f"), ("q", ".1f"),
-            ("bandwidth_2", ".1f"), ("coverage", ".0%"),
-        ]  # fmt: skip
-        t = Table(title="Bands", title_justify="left")
-        t.add_column("band")
-        for name, _ in columns:
-            t.add_column(METRICS[name].axis_label, justify="right")
+        # one column per band, one row per metric (labels from the metric table): stays
+        # readable in a narrow terminal with a handful of bands
+        rows = (
+            ("coverage", ".0%"), ("min_swr", ".2f"), ("min_swr_hz", ".4f"),
+            ("swr_center", ".2f"), ("r_center", ".1f"), ("x_center", ".1f"),
+            ("return_loss_center", ".1f"), ("usable_fraction_2", ".0%"),
+            ("bandwidth_2", ".1f"), ("resonance", ".4f"), ("q", ".1f"),
+        )  # fmt: skip
+        t = Table(title=f"Bands (ITU Region {a.region})", title_justify="left")
+        t.add_column("metric")
         for b in m.bands:
-            cells = [b.band]
-            for name, fmt in columns:
-                spec = METRICS[name]
-                value = getattr(b, spec.field)
-                scale = 1.0 if fmt.endswith("%") else spec.display_scale
-                cells.append(_num(value, fmt, scale))
-            t.add_row(*cells)
+            t.add_column(b.band, justify="right")
+        for name, fmt in rows:
+            spec = METRICS[name]
+            scale = 1.0 if fmt.endswith("%") else spec.display_scale
+            t.add_row(spec.axis_label, *(_num(getattr(b, spec.field), fmt, scale) for b in m.bands))
+        t.add_row("Resonance kind", *(b.resonance_kind or "—" for b in m.bands))
         console.print(t)
 
     if a.at:
@@ -242,7 +241,9 @@ def _frequencies(values: list[str] | None) -> list[float]:
 
 
 def analyze(
-    files: Annotated[list[Path], typer.Argument(help="Sweep files (.s1p, .s2p, .ts, .csv).")],
+    files: Annotated[
+        list[Path], typer.Argument(metavar="FILE...", help="Sweep files (.s1p, .s2p, .ts, .csv).")
+    ],
     band: Annotated[
         list[str] | None,
         typer.Option(
@@ -268,6 +269,20 @@ def analyze(
     as_json: Annotated[
         bool, typer.Option("--json", help="Print a JSON array (docs/analyze-json.md).")
     ] = False,
+    feedline: Annotated[
+        str | None,
+        typer.Option(
+            "--feedline",
+            help="The sweep was taken through this line, CABLE:LENGTH[:CONNECTORS], e.g. "
+            "RG-213:30m: also report the feedpoint metrics (docs/feedlines.md).",
+        ),
+    ] = None,
+    cable: Annotated[
+        str | None, typer.Option("--cable", help="Feedline cable type (with --length).")
+    ] = None,
+    length: Annotated[
+        str | None, typer.Option("--length", help="Feedline length, e.g. 30m or 98ft.")
+    ] = None,
 ) -> None:
     """Print the metrics of each sweep file: summary, resonances, SWR bandwidths, bands."""
     at_hz = _frequencies(at)
@@ -278,6 +293,9 @@ def analyze(
         except ValueError as e:
             raise typer.BadParameter(str(e), param_hint="--band") from None
 
+    from mastwatch.cli.lines import add_feedpoint, resolve_feedline  # feedline step (C)
+
+    line = resolve_feedline(feedline, cable, length)
     console = Console(highlight=False)
     if not console.is_terminal:
         console.width = 160  # files and pipes: do not squeeze the band table into 80 columns
@@ -288,6 +306,13 @@ def analyze(
         try:
             sweep = load_sweep(path, columns)
             analysis = analyze_sweep(name, sweep, region=region, band_names=band_names, at_hz=at_hz)
+            feed = (
+                None
+                if line is None
+                else add_feedpoint(
+                    analysis, line, region=region, band_names=band_names, at_hz=at_hz
+                )
+            )
         except (OSError, RFError) as e:
             typer.echo(error_line(name, e), err=True)
             failed += 1
@@ -296,6 +321,8 @@ def analyze(
             results.append(analysis_to_json(analysis))
         else:
             render_analysis(console, analysis)
+            if feed is not None:
+                render_analysis(console, feed)
     if as_json:
         typer.echo(json.dumps(results, indent=2, ensure_ascii=False, allow_nan=False))
     if failed:

@@ -14,14 +14,32 @@ import math
 from pathlib import Path
 from typing import Annotated, Any
 
+import numpy as np
 import typer
 from rich.console import Console
 from rich.table import Table
 
-from mastwatch.cli.analyze import error_line, load_sweep, parse_frequency
+from mastwatch.cli.analyze import (
+    Analysis,
+    analysis_to_json,
+    analyze_sweep,
+    error_line,
+    load_sweep,
+    parse_frequency,
+)
 from mastwatch.rf.dtf import DEFAULT_THRESHOLD_DB, WINDOWS, DtfResult, distance_to_fault
 from mastwatch.rf.errors import AnalysisError, RFError
-from mastwatch.rf.lines import FEET, Feedline, deembed, get_cable, parse_feedline
+from mastwatch.rf.limits import MAX_PASSIVE_GAMMA
+from mastwatch.rf.lines import (
+    FEET,
+    Feedline,
+    deembed,
+    get_cable,
+    matched_loss_db,
+    parse_feedline,
+    parse_length,
+    passivity_margin,
+)
 from mastwatch.rf.matching import l_networks, load_hint, matched_sweep
 from mastwatch.rf.metrics import compute_metrics, value_at
 from mastwatch.rf.sweep import Sweep
@@ -271,6 +289,72 @@ def match(
                   f"{n['b_s'] * 1e3:.3f}", width)
     console.print(t)
     console.print("  Ideal components; real ones add loss and stray reactance.")
+
+
+# -- the --feedline option of ``mastwatch analyze`` ------------------------------------------
+
+
+def resolve_feedline(
+    feedline: str | None, cable: str | None, length: str | None, connectors: int = 0
+) -> Feedline | None:
+    """``--feedline RG-213:30m`` or ``--cable RG-213 --length 30m`` → Feedline (or None)."""
+    if feedline is not None:
+        if cable is not None or length is not None:
+            raise typer.BadParameter("give --feedline or --cable/--length, not both",
+                                     param_hint="--feedline")
+        try:
+            line = parse_feedline(feedline)
+        except ValueError as e:
+            raise typer.BadParameter(str(e), param_hint="--feedline") from None
+        return Feedline(line.cable, line.length_m, line.connectors or connectors)
+    if cable is None and length is None:
+        return None
+    if cable is None or length is None:
+        raise typer.BadParameter("--cable and --length go together", param_hint="--cable")
+    try:
+        return Feedline(get_cable(cable), parse_length(length), connectors)
+    except ValueError as e:
+        raise typer.BadParameter(str(e), param_hint="--cable/--length") from None
+
+
+def add_feedpoint(
+    measured: Analysis,
+    line: Feedline,
+    *,
+    region: int,
+    band_names: list[str],
+    at_hz: list[float],
+) -> Analysis:
+    """De-embed ``line`` from a line-input analysis: the feedpoint's own Analysis.
+
+    The measured analysis gains ``feedpoint`` (the same keys as a file's JSON object,
+    without ``file``) and ``feedline`` (cable, length, loss) in its JSON, and a note.
+    """
+    sweep = deembed(measured.sweep, line)
+    feed = analyze_sweep(measured.file, sweep, region=region, band_names=band_names, at_hz=at_hz)
+    feed.file = f"{measured.file} at the feedpoint (through {line.describe()})"
+    f = np.array([sweep.f_start_hz, sweep.f_stop_hz])
+    loss = matched_loss_db(line, f)
+    doc = analysis_to_json(feed)
+    doc.pop("file", None)
+    measured.extra["feedline"] = {
+        **line.to_dict(),
+        "matched_loss_db_start": float(loss[0]),
+        "matched_loss_db_stop": float(loss[1]),
+    }
+    measured.extra["feedpoint"] = doc
+    measured.notes.append(
+        f"feedline {line.describe()}: matched loss {loss[0]:.2f}–{loss[1]:.2f} dB over the "
+        "sweep; feedpoint metrics follow"
+    )
+    if passivity_margin(sweep) < 1.0 - MAX_PASSIVE_GAMMA:
+        note = (
+            "warning: at the feedpoint |Γ| exceeds 1: the assumed feedline loses more than "
+            "this sweep allows (check the cable type and length)"
+        )
+        measured.notes.append(note)
+        feed.notes.append(note)
+    return feed
 
 
 def register(app: typer.Typer) -> None:
