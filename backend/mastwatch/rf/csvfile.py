@@ -170,8 +170,14 @@ def _is_comment(s: str) -> bool:
 
 
 def _looks_numeric(s: str) -> bool:
-    first = re.split(r"[,;\t ]", s, maxsplit=1)[0].strip().strip("\"'")
-    return bool(NUMBER.fullmatch(first))
+    """A data row: more than half of its non-empty fields are numbers (a header has none;
+    a preamble line such as "Points: 201" has half)."""
+    delim = _delimiter(s)
+    fields = [f for f in _split(s, delim) if f]
+    if delim != ",":
+        fields = [f.replace(",", ".") for f in fields]
+    numbers = sum(1 for f in fields if NUMBER.fullmatch(f))
+    return 2 * numbers > len(fields)
 
 
 def _delimiter(line: str) -> str | None:
@@ -296,7 +302,8 @@ def read_csv(text: str, *, columns: str | None = None, filename: str | None = No
         if not names:
             names = [f"{r} (column {i + 1})" for i, r in enumerate(roles)]
         fi = roles.index("freq")
-        units[fi] = spec.freq_unit or (classify_header(names[fi])[1] if header else None)
+        units[fi] = spec.freq_unit or (
+            classify_header(names[fi])[1] if header is not None else None)
     else:
         roles = []
         for i, name in enumerate(names):

@@ -30,7 +30,7 @@ _SNP = re.compile(r"\.s(\d+)p", re.IGNORECASE)
 # An ISO 8601 date and time (seconds and zone optional), e.g. 2025-03-14T09:30:00Z.
 _ISO_DATETIME = re.compile(
     r"(?<!\d)(\d{4}-\d{2}-\d{2})[T ](\d{2}:\d{2}(?::\d{2}(?:\.\d{1,6})?)?)"
-    r"(Z|[+-]\d{2}:?\d{2})?(?!\d)",
+    r" ?(Z|[+-]\d{2}:?\d{2})?(?!\d)",
     re.ASCII,
 )
 
