@@ -200,3 +200,11 @@ def test_parse_frequency(text: str, hz: float) -> None:
 def test_parse_frequency_rejects(text: str) -> None:
     with pytest.raises(ValueError, match="frequency"):
         parse_frequency(text)
+
+
+def test_every_json_key_is_documented(s1p: Path) -> None:
+    doc_text = (Path(__file__).parents[2] / "docs" / "analyze-json.md").read_text()
+    (doc,) = json.loads(run(s1p, "--json", "--at", "7.1MHz").stdout)
+    keys = set(doc) | RESONANCE_KEYS | BANDWIDTH_KEYS | BAND_KEYS | AT_KEYS
+    missing = sorted(k for k in keys if f"`{k}`" not in doc_text)
+    assert missing == []
