@@ -331,18 +331,21 @@ class _Model:
         cached = self._usable.get(m2)
         if cached is not None:
             return cached
-        a, b, c = self.A, self.B, self.C - m2
-        disc = b * b - 4.0 * a * c
-        sq = np.sqrt(np.maximum(disc, 0.0))
-        q = -0.5 * (b + np.copysign(sq, b))
-        quad = (a > 0) & (q != 0)
-        r1 = np.divide(q, a, out=np.zeros_like(a), where=quad)
-        r2 = np.divide(c, q, out=np.zeros_like(a), where=quad)
-        lo = np.clip(np.minimum(r1, r2), 0.0, 1.0)
-        hi = np.clip(np.maximum(r1, r2), 0.0, 1.0)
-        ok = np.where(a > 0, disc >= 0, c <= 0)
-        lo = np.where(a > 0, lo, 0.0)
-        hi = np.where(ok, np.where(a > 0, hi, 1.0), lo)
+        inside = self.mag2 <= m2
+        start_in, end_in = inside[:-1], inside[1:]
+        # convexity: a segment with both ends inside is inside throughout; it is cut only
+        # where one end is inside, or where both are outside but its dip reaches below m2
+        hi = (start_in & end_in).astype(np.float64)
+        lo = np.zeros_like(hi)
+        cut = np.flatnonzero((start_in ^ end_in) | ~(start_in | end_in) & (self.vmin <= m2))
+        if cut.size:
+            a, b, c = self.A[cut], self.B[cut], self.C[cut] - m2
+            disc = np.maximum(b * b - 4.0 * a * c, 0.0)
+            q = -0.5 * (b + np.copysign(np.sqrt(disc), b))  # cancellation-free roots
+            r1 = np.divide(q, a, out=np.zeros_like(a), where=a > 0)
+            r2 = np.divide(c, q, out=np.zeros_like(a), where=q != 0)
+            lo[cut] = np.clip(np.minimum(r1, r2), 0.0, 1.0)
+            hi[cut] = np.clip(np.maximum(r1, r2), 0.0, 1.0)
         cum = np.concatenate(([0.0], np.cumsum((hi - lo) * self.df)))
         self._usable[m2] = (lo, hi, cum)
         return self._usable[m2]
