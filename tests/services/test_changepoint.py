@@ -34,8 +34,9 @@ def test_known_parameter_chart_matches_textbook_in_control_arl(h: float, arl0: f
     assert abs(np.mean(runs) - arl0) / arl0 < 0.15
 
 
-def measure_rates(n: int = 60, start: int = 20, slope: float = 0.1, h: float = 5.0,
-                  repeats: int = REPEATS) -> dict[str, float]:
+def measure_rates(
+    n: int = 60, start: int = 20, slope: float = 0.1, h: float = 5.0, repeats: int = REPEATS
+) -> dict[str, float]:
     """False-alarm rate on stationary N(0,1) series of ``n`` points, and detection of a
     drift of ``slope`` σ per sweep starting at ``start`` (self-starting chart)."""
     false_alarms = misses = early = 0
@@ -121,5 +122,7 @@ def test_drift_reason_words() -> None:
 if __name__ == "__main__":
     for n, start, slope in ((40, 12, 0.15), (60, 20, 0.1), (100, 30, 0.1)):
         for h in (5.0, 6.0):
-            print(f"n={n} drift from {start} at {slope} σ/sweep, h={h}:",
-                  measure_rates(n, start, slope, h))
+            print(
+                f"n={n} drift from {start} at {slope} σ/sweep, h={h}:",
+                measure_rates(n, start, slope, h),
+            )

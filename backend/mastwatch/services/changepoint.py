@@ -60,8 +60,10 @@ class CusumResult:
 
     def to_dict(self) -> dict[str, Any]:
         return {
-            "alarm_index": self.alarm_index, "onset_index": self.onset_index,
-            "direction": self.direction, "reference": self.reference,
+            "alarm_index": self.alarm_index,
+            "onset_index": self.onset_index,
+            "direction": self.direction,
+            "reference": self.reference,
         }
 
 
@@ -87,8 +89,9 @@ def _standardise_self_starting(x: np.ndarray, sigma_floor: float) -> tuple[np.nd
     if np.any(valid):
         tv, df = t[valid], n[valid] - 1
         # Tail-safe: isf(sf) above the median, ppf(cdf) below it.
-        u[valid] = np.where(tv > 0, stats.norm.isf(stats.t.sf(tv, df)),
-                            stats.norm.ppf(stats.t.cdf(tv, df)))
+        u[valid] = np.where(
+            tv > 0, stats.norm.isf(stats.t.sf(tv, df)), stats.norm.ppf(stats.t.cdf(tv, df))
+        )
     return u, mean
 
 
@@ -135,8 +138,9 @@ def cusum(
         if cp > h or cm > h:
             direction: Literal["up", "down"] = "up" if cp > h else "down"
             onset = (last_zero_p if direction == "up" else last_zero_m) + 1
-            return CusumResult(i, onset, direction, float(ref[onset]), upper[: i + 1],
-                               lower[: i + 1])
+            return CusumResult(
+                i, onset, direction, float(ref[onset]), upper[: i + 1], lower[: i + 1]
+            )
     return CusumResult(None, None, None, float(ref[-1]), upper, lower)
 
 

@@ -224,6 +224,11 @@ class SweepView:
     measured: Sweep | None = None
     plane: Literal["feedpoint", "line_input"] = "feedpoint"
     feedpoint: Sweep | None = None
+    label: str | None = None  # how reasons name it; default "the baseline of <date>"
+
+    @property
+    def phrase(self) -> str:
+        return self.label or baseline_phrase(self.taken_at)
 
     @property
     def feedpoint_view(self) -> Sweep | None:
@@ -300,7 +305,7 @@ def compare_band(
     baseline: BandMetricsLike,
     thresholds: Thresholds,
     *,
-    baseline_date: date | datetime | None = None,
+    since: str = "the baseline",
     current_sweep: Sweep | None = None,
     baseline_sweep: Sweep | None = None,
     current_resonances: Sequence[tuple[float, str | None]] = (),
@@ -314,7 +319,6 @@ def compare_band(
     """
     t = thresholds
     name = current.band
-    since = baseline_phrase(baseline_date)
     center = 0.5 * (current.low_hz + current.high_hz)
     findings: list[Finding] = []
 
@@ -552,7 +556,7 @@ def detect_lossy_feedline(
     baseline: Sweep,
     thresholds: Thresholds,
     *,
-    baseline_date: date | datetime | None = None,
+    since: str = "the baseline",
 ) -> Finding | None:
     """Finding for a feedline that got lossier (water in the coax), or None.
 
@@ -573,7 +577,7 @@ def detect_lossy_feedline(
         level,
         "lossy_feedline",
         f"feedline looks lossier: return loss at the line input improved across the sweep "
-        f"since {baseline_phrase(baseline_date)} while the antenna's own match looks flatter; "
+        f"since {since} while the antenna's own match looks flatter; "
         f"about {extra:.1f} dB extra loss each way — the usual sign of water in the coax",
     )
 
@@ -588,15 +592,10 @@ class DtfTrace:
 
     @classmethod
     def from_result(cls, result: Any) -> DtfTrace:
-        """From ``mastwatch.rf.dtf.DtfResult`` (distance_m, magnitude in dB or linear)."""
+        """From ``mastwatch.rf.dtf.DtfResult`` (``distance_m``, linear ``reflection``)."""
         d = np.asarray(result.distance_m, dtype=float)
-        if hasattr(result, "level_db"):
-            level = np.asarray(result.level_db, dtype=float)
-        elif hasattr(result, "magnitude_db"):
-            level = np.asarray(result.magnitude_db, dtype=float)
-        else:
-            with np.errstate(divide="ignore"):
-                level = 20 * np.log10(np.maximum(np.asarray(result.magnitude, float), 1e-12))
+        with np.errstate(divide="ignore"):
+            level = 20 * np.log10(np.maximum(np.asarray(result.reflection, float), 1e-12))
         return cls(d, level, float(result.resolution_m))
 
 
@@ -606,7 +605,7 @@ def detect_new_reflections(
     thresholds: Thresholds,
     *,
     max_distance_m: float | None = None,
-    baseline_date: date | datetime | None = None,
+    since: str = "the baseline",
 ) -> list[Finding]:
     """Reflections in the current DTF view where the baseline had none.
 
@@ -645,7 +644,7 @@ def detect_new_reflections(
                 "watch",
                 "new_reflection",
                 f"new reflection about {d:.1f} m along the line ({level_db:.0f} dB), none there "
-                f"in {baseline_phrase(baseline_date)}: a connector or a damaged cable?",
+                f"in {since}: a connector or a damaged cable?",
             )
         )
     return found
@@ -753,6 +752,7 @@ def judge(
         return Verdict(status, tuple(findings))
 
     when0 = baseline.taken_at
+    since = baseline.phrase
     # Feedline got lossier: the current sweep must look through the line.
     if current.plane == "line_input":
         pair: tuple[Sweep | None, Sweep | None] = (None, None)
@@ -761,14 +761,14 @@ def judge(
         elif baseline.plane == "line_input":
             pair = (current.measured, baseline.measured)
         if pair[0] is not None and pair[1] is not None:
-            lossy = detect_lossy_feedline(pair[0], pair[1], t_all, baseline_date=when0)
+            lossy = detect_lossy_feedline(pair[0], pair[1], t_all, since=since)
             if lossy is not None:
                 findings.append(lossy)
 
     if dtf is not None:
         max_d = line_length_m - dtf[0].resolution_m if line_length_m else None
         findings.extend(
-            detect_new_reflections(dtf[0], dtf[1], t_all, max_distance_m=max_d, baseline_date=when0)
+            detect_new_reflections(dtf[0], dtf[1], t_all, max_distance_m=max_d, since=since)
         )
 
     cur_bands, base_bands = _band_map(current.metrics), _band_map(baseline.metrics)
@@ -781,7 +781,7 @@ def judge(
             cur_bands[name],
             base_bands[name],
             thresholds_for(thresholds, name),
-            baseline_date=when0,
+            since=since,
             current_sweep=fp,
             baseline_sweep=fp0,
             current_resonances=resonance_list(current.metrics),
@@ -797,7 +797,7 @@ def judge(
             Finding(
                 "info",
                 "no_change",
-                f"no change beyond the thresholds since {baseline_phrase(when0)}",
+                f"no change beyond the thresholds since {since}",
             )
         )
     return Verdict(
