@@ -2,9 +2,9 @@
 
     live_server   uvicorn in a daemon thread serving create_app(settings) on a fresh
                   SQLite database (migrated to head) under a temporary data directory
-    club          the records the tests look at: the demo club when its loader exists,
-                  else a small club seeded through the API (so the tests see the API the
-                  way the pages do)
+    club          the records the tests look at: the demo club (loaded as ``mastwatch
+                  demo`` does) plus a site and antenna with markup in their names, added
+                  through the API, read back through the API as the pages see them
     page          pytest-playwright's page, with console errors and dialogs recorded
                   (``page_log``); every test asserts the console stayed clean
 
@@ -69,15 +69,17 @@ class LiveServer:
 
 @pytest.fixture(scope="session")
 def live_server(tmp_path_factory: pytest.TempPathFactory) -> Iterator[LiveServer]:
+    """The app on a fresh demo database (``mastwatch demo``'s own loader), served live."""
     import uvicorn
 
     from mastwatch.api.app import create_app
-    from mastwatch.db.migrate import upgrade
+    from mastwatch.cli.records import create_demo_database, load_demo
     from mastwatch.settings import Settings
 
     data = tmp_path_factory.mktemp("browser-data")
-    settings = Settings(data_dir=data, demo=True)
-    upgrade(settings.database_url)
+    url = create_demo_database(data)
+    settings = Settings(data_dir=data, database_url=url, demo=True)
+    load_demo(url, settings)
     app = create_app(settings)
     port = _free_port()
     server = uvicorn.Server(
@@ -90,9 +92,9 @@ def live_server(tmp_path_factory: pytest.TempPathFactory) -> Iterator[LiveServer
         if time.monotonic() > deadline or not thread.is_alive():
             raise RuntimeError("the live server did not start")
         time.sleep(0.05)
-    url = f"http://127.0.0.1:{port}"
-    with httpx.Client(base_url=url + "/api/v1", timeout=60) as client:
-        yield LiveServer(url=url, api=client)
+    base = f"http://127.0.0.1:{port}"
+    with httpx.Client(base_url=base + "/api/v1", timeout=60) as client:
+        yield LiveServer(url=base, api=client)
     server.should_exit = True
     thread.join(timeout=10)
 
@@ -122,48 +124,34 @@ def _ok(r: httpx.Response) -> dict[str, Any]:
     return dict(r.json())
 
 
-def _seed(api: httpx.Client) -> None:
-    """A small invented club through the API: two sites, four antennas, a storm."""
+def _add_hostile(api: httpx.Client) -> None:
+    """A site and an antenna whose names are markup, with one sweep uploaded through the API."""
     from tests.browser.sweepfiles import touchstone
 
-    hill = _ok(api.post("/sites", json={"name": "Q0HRS Hilltop", "itu_region": 1,
-                                          "locator": "JO01aa", "timezone": "UTC",
-                                          "notes": "repeater site"}))
-    club = _ok(api.post("/sites", json={"name": f"Clubhouse {HOSTILE}", "itu_region": 1,
-                                          "timezone": "UTC", "notes": ""}))
-    plan = [
-        (hill, "40 m dipole", "dipole", ["40m"], 7.1e6),
-        (hill, "20 m vertical", "vertical", ["20m"], 14.15e6),
-        (club, f"Loop {HOSTILE}", "loop", ["80m"], 3.65e6),
-        (club, "2 m j-pole", "j-pole", ["2m"], 145.0e6),
-    ]
-    dates = ["2025-03-01T10:00:00Z", "2025-09-01T10:00:00Z", "2026-03-01T10:00:00Z"]
-    for site, name, kind, bands, f0 in plan:
-        ant = _ok(api.post("/antennas", json={"site_id": site["id"], "name": name, "kind": kind,
-                                                "bands": bands, "installed_on": "2025-02-01",
-                                                "notes": ""}))
-        for i, when in enumerate(dates):
-            # Each later sweep drifts a little lower in frequency (an ageing element).
-            data = touchstone(f0 * (1 - 0.004 * i), r_ohm=50 + 6 * i, comment=f"{name} #{i}")
-            _ok(api.post(f"/antennas/{ant['id']}/sweeps",
-                         files={"file": (f"{kind}-{i}.s1p", data, "application/octet-stream")},
-                         data={"measured_at": when, "reference_plane": "feedpoint",
-                               "conditions": "dry", "operator": "Q0HRS"}))
-    _ok(api.post(f"/sites/{hill['id']}/events", json={
-        "kind": "storm", "occurred_at": "2025-12-01T00:00:00Z", "title": "Winter storm",
-        "notes": "gusts"}))
+    site = _ok(api.post("/sites", json={"name": f"Field kit {HOSTILE}", "itu_region": 1,
+                                          "timezone": "UTC", "notes": HOSTILE}))
+    ant = _ok(api.post("/antennas", json={"site_id": site["id"], "name": f"Loop {HOSTILE}",
+                                            "kind": "loop", "bands": ["40m"],
+                                            "installed_on": "2025-02-01", "notes": HOSTILE}))
+    data = touchstone(7.1e6, r_ohm=45.0, q=10.0, comment="hostile names test")
+    _ok(api.post(f"/antennas/{ant['id']}/sweeps",
+                 files={"file": ("loop.s1p", data, "application/octet-stream")},
+                 data={"measured_at": "2026-03-01T10:00:00Z", "reference_plane": "feedpoint",
+                       "conditions": HOSTILE, "operator": "Q0HRS"}))
 
 
 @pytest.fixture(scope="session")
 def club(live_server: LiveServer) -> Club:
+    """The demo club plus the hostile-name entries, read back through the API."""
     api = live_server.api
-    if not api.get("/sites").json():
-        _seed(api)
+    if not any(HOSTILE in s["name"] for s in _items(api.get("/sites").json())):
+        _add_hostile(api)
     out = Club(hostile_name=HOSTILE)
     out.sites = list(_items(api.get("/sites").json()))
     out.antennas = list(_items(api.get("/antennas").json()))
     for a in out.antennas:
-        out.sweeps[a["id"]] = list(_items(api.get(f"/antennas/{a['id']}/sweeps").json()))
+        out.sweeps[a["id"]] = list(_items(api.get(f"/antennas/{a['id']}/sweeps",
+                                                  params={"limit": 500}).json()))
     return out
 
 

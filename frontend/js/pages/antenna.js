@@ -4,7 +4,7 @@
 // the history list. `?sweep=<id>` opens the page with that sweep shown.
 
 import * as api from "../api.js";
-import { clear, errorBox, field, fill, h, select } from "../dom.js";
+import { errorBox, field, fill, h, select } from "../dom.js";
 import * as fmt from "../format.js";
 import { bandsOf, planeArrays, reasonsOf, resonancesOf } from "../model.js";
 import { BASELINE_COLOUR, colourFor, plotBox } from "../plots/common.js";
@@ -89,15 +89,16 @@ export async function render(root, [idText], query, isStale) {
       h("a", { href: `#/check/${ant.site_id}` }, "Site check"),
       h("a", { href: `#/manage/antennas?edit=${antennaId}` }, "Edit")));
   const baselineSweep = list.find((s) => s.id === baselineId);
+  const fact = (term, value) => h("div", {}, h("dt", {}, term), h("dd", {}, value));
   const facts = h("dl", { class: "facts panel" },
-    h("dt", {}, "Site"), h("dd", {}, site.name),
-    h("dt", {}, "Kind"), h("dd", {}, ant.kind),
-    h("dt", {}, "Bands"), h("dd", {}, (ant.bands ?? []).join(", ") || "—"),
-    h("dt", {}, "Installed"), h("dd", {}, ant.installed_on ?? "—"),
-    h("dt", {}, "Feedline"), h("dd", {}, feedlineText(ant.feedline)),
-    h("dt", {}, "Baseline"), h("dd", {}, baselineSweep ? label(baselineSweep) : "none set yet"),
-    h("dt", {}, "Sweeps on record"), h("dd", {}, String(list.length)),
-    ant.notes ? [h("dt", {}, "Notes"), h("dd", {}, ant.notes)] : null);
+    fact("Site", site.name),
+    fact("Kind", ant.kind),
+    fact("Bands", (ant.bands ?? []).join(", ") || "—"),
+    fact("Installed", ant.installed_on ?? "—"),
+    fact("Feedline", feedlineText(ant.feedline)),
+    fact("Baseline", baselineSweep ? label(baselineSweep) : "none set yet"),
+    fact("Sweeps on record", String(list.length)),
+    ant.notes ? fact("Notes", ant.notes) : null);
 
   // -- plots ---------------------------------------------------------------------------
   let shown = [];
@@ -208,7 +209,7 @@ export async function render(root, [idText], query, isStale) {
   async function drawDtfNow() {
     if (!latest) { dtfNote.textContent = "No sweep yet."; return; }
     if (!(await api.has("dtf"))) {
-      dtfBox.plot.classList.add("hidden");
+      dtfBox.box.classList.add("hidden");
       dtfNote.textContent = "Distance to fault is not available on this server yet.";
       return;
     }
@@ -220,14 +221,14 @@ export async function render(root, [idText], query, isStale) {
       await drawDtf(dtfBox.plot, dtfNow, dtfBase, { filename: `antenna-${antennaId}-dtf` });
       dtfNote.textContent = `Latest sweep${dtfBase ? " against the baseline's" : ""}. Distances assume the feedline's velocity factor.`;
     } catch (err) {
-      dtfBox.plot.classList.add("hidden");
+      dtfBox.box.classList.add("hidden");
       dtfNote.textContent = err.status === 404 || err.status === 405
         ? "Distance to fault is not available on this server yet."
         : `Distance to fault could not be computed: ${err.message}`;
     }
   }
 
-  clear(root).append(
+  fill(root,
     header,
     status === "fault" ? cautions("This antenna shows a fault: before anyone goes to look") : null,
     facts,

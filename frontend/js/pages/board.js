@@ -2,7 +2,7 @@
 // bands, last sweep and its age, SWR at band centres and a min-SWR sparkline. Filters by
 // site, band and verdict; sweeps older than the stale age stand out.
 
-import { clear, field, h, select } from "../dom.js";
+import { clear, field, fill, h, select } from "../dom.js";
 import * as fmt from "../format.js";
 import { loadBoard } from "../model.js";
 import { cautions } from "../safety.js";
@@ -100,7 +100,7 @@ export async function render(root, _params, query) {
   };
   for (const el of [siteSel, bandSel, verdictSel, staleIn]) el.addEventListener("change", onChange);
 
-  clear(root).append(
+  fill(root,
     h("h1", {}, "Status board"),
     h("form", { class: "filters panel", onsubmit: (e) => e.preventDefault() },
       field("Site", siteSel), field("Band", bandSel), field("Verdict", verdictSel),

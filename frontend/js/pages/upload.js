@@ -6,7 +6,7 @@
 // server's reason and line beside it. Offline, files wait on this device ("send pending").
 
 import * as api from "../api.js";
-import { clear, errorBox, field, fill, h, select } from "../dom.js";
+import { errorBox, field, fill, h, select } from "../dom.js";
 import * as fmt from "../format.js";
 import { bandRows, planeArrays, resonancesOf } from "../model.js";
 import { drawSmith } from "../plots/smith.js";
@@ -238,7 +238,7 @@ export async function render(root, _params, query) {
     for (const item of ctx.items) if (!item.done && !item.save.disabled) await item.upload();
   } }, "Save all previewed");
 
-  clear(root).append(
+  fill(root,
     h("h1", {}, "Upload sweeps"),
     pendingBox,
     h("form", { class: "panel", onsubmit: (e) => e.preventDefault() },

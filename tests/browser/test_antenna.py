@@ -1,0 +1,87 @@
+"""The antenna page: Smith chart traces and hover values against the API's own arrays."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from tests.browser.conftest import Club, PageLog, shot, wait_ready
+
+PLOT_POINTS = 501  # frontend/js/pages/antenna.js asks the server for this many points
+
+
+def _impedance(r: float, x: float) -> str:
+    """The page's R + jX format (frontend/js/format.js), for comparing hover text."""
+    sign = "−" if x < 0 else "+"
+    return f"{r:.2f} {sign} j{abs(x):.2f} Ω"
+
+
+def _open(page: Any, antenna_id: int) -> None:
+    page.set_viewport_size({"width": 1280, "height": 900})
+    page.goto(f"/#/antenna/{antenna_id}")
+    wait_ready(page, "/antenna/")
+    page.wait_for_function("document.getElementById('smith-plot')?.data?.length > 0")
+
+
+def test_smith_chart_traces_and_hover_impedance(page: Any, page_log: PageLog, club: Club,
+                                                live_server: Any) -> None:
+    ant = next(a for a in club.antennas if a["name"] == "40 m dipole")
+    sweeps = club.sweeps[ant["id"]]
+    _open(page, ant["id"])
+    shown = page.evaluate("document.getElementById('smith-plot').data.map(t => t.name)")
+    # The latest sweep (and the baseline, when one is set), then the two marker traces.
+    baseline = page.locator(".history li").filter(has_text="baseline").count()
+    assert len(shown) == 1 + baseline + 2, shown
+    assert shown[-2:] == ["band edges", "resonances"]
+    assert page.evaluate("document.getElementById('smith-plot').data[0].type") == "scattersmith"
+
+    # Hover a known point of the latest sweep and compare with the API's arrays.
+    latest = sweeps[0]
+    data = live_server.api.get(f"/sweeps/{latest['id']}/data",
+                               params={"max_points": PLOT_POINTS}).json()
+    k = len(data["freq_hz"]) // 3
+    curve = next(i for i, n in enumerate(shown) if f"#{latest['id']}" in n)
+    page.evaluate(
+        "([c, k]) => Plotly.Fx.hover('smith-plot', [{curveNumber: c, pointNumber: k}], 'smith')",
+        [curve, k],
+    )
+    hover = page.locator("#smith-plot .hoverlayer .hovertext").first
+    hover.wait_for()
+    text = hover.text_content() or ""
+    # The page shows the feedpoint plane when the antenna has a feedline.
+    plane = data["feedpoint"] if ant["feedline"] and data["feedpoint"] else data["measured"]
+    r, x = plane["r_ohm"][k], plane["x_ohm"][k]
+    assert _impedance(r, x) in text, text
+    assert f"{data['freq_hz'][k] / 1e6:.4f} MHz" in text, text
+    assert f"SWR {plane['swr'][k]:.2f}" in text, text
+    shot(page, "antenna")
+
+    # Toggling an older sweep on from the history adds one trace.
+    older = sweeps[-1]
+    page.check(f'.history input[data-sweep-id="{older["id"]}"]')
+    page.wait_for_function("n => document.getElementById('smith-plot').data.length === n",
+                           arg=len(shown) + 1)
+    assert page_log.errors == []
+
+
+def test_rectangular_and_trend_plots_are_drawn(page: Any, page_log: PageLog, club: Club) -> None:
+    ant = next(a for a in club.antennas if a["name"] == "20 m yagi")
+    _open(page, ant["id"])
+    page.wait_for_function("document.getElementById('trend-plot')?.data?.length > 0")
+    swr = page.evaluate("document.getElementById('swr-plot').data[0]")
+    assert swr["type"] == "scatter"
+    assert min(v for v in swr["y"] if v is not None) >= 1.0
+    # The band of interest is shaded (a rect shape spanning the 20 m band in MHz).
+    shapes = page.evaluate("document.getElementById('swr-plot').layout.shapes")
+    assert any(s["type"] == "rect" and 13.9 < s["x0"] < 14.1 for s in shapes), shapes
+    trend = page.evaluate("document.getElementById('trend-plot').data[0]")
+    assert len(trend["x"]) == len(club.sweeps[ant["id"]])
+    # Every plot has its CSV button.
+    assert page.locator("button[data-csv]").count() >= 5
+    with page.expect_download() as dl:
+        page.click('button[data-csv$="swr.csv"]')
+    assert dl.value.suggested_filename.endswith("swr.csv")
+    page.set_viewport_size({"width": 390, "height": 844})
+    page.wait_for_timeout(300)
+    assert page.evaluate("document.documentElement.scrollWidth") <= 390
+    shot(page, "antenna-phone")
+    assert page_log.errors == []
