@@ -58,6 +58,10 @@ MEASUREMENT_NOISE = 0.0015
 SEASONAL_DRIFT = 0.0004
 """Peak relative resonance drift over a year (wire sag and temperature): tiny by design."""
 
+LOOP_TUNING_DRIFT = 0.00005
+"""The small loop is retuned to its dial mark before every sweep: only a setting error
+remains (its Q of 400 would turn a 0.04 % drift into a large SWR change at the mark)."""
+
 
 # --------------------------------------------------------------------------------------
 # Scenario data
@@ -98,6 +102,7 @@ class AntennaSpec:
     f_stop_hz: float
     points: int
     notes: str
+    drift: float = SEASONAL_DRIFT  # peak relative yearly drift of the resonance
 
 
 @dataclass(frozen=True)
@@ -333,12 +338,14 @@ ANTENNAS = (
         "loop",
         ("40m",),
         _INSTALLED,
-        SmallLoop(7.080e6, r_rad_ohm=0.05, r_loss_ohm=0.10, q=400.0, r_match_ohm=48.0),
+        SmallLoop(7.100e6, r_rad_ohm=0.05, r_loss_ohm=0.10, q=400.0, r_match_ohm=48.0),
         FeedlineSpec("RG-58", 5.0),
-        7.03e6,
-        7.13e6,
+        7.05e6,
+        7.15e6,
         801,
-        "1 m diameter copper loop, tuned to the 7.080 MHz mark; swept at its own connector.",
+        "1 m diameter copper loop, retuned to its 7.100 MHz dial mark before each sweep; "
+        "swept at its own connector.",
+        drift=LOOP_TUNING_DRIFT,
     ),
 )
 
@@ -418,10 +425,10 @@ EVENTS = (
 )
 
 
-def _seasonal(when: datetime) -> float:
+def _seasonal(when: datetime, peak: float) -> float:
     """Relative resonance drift at a date: a small yearly swing (lower in summer heat)."""
     day = when.timetuple().tm_yday
-    return -SEASONAL_DRIFT * math.sin(2 * math.pi * (day - 80) / 365.25)
+    return -peak * math.sin(2 * math.pi * (day - 80) / 365.25)
 
 
 def _sweeps() -> Iterator[SweepSpec]:
@@ -527,7 +534,7 @@ def seed_of(spec: SweepSpec) -> int:
 def sweep_of(spec: SweepSpec, scenario: Scenario = SCENARIO) -> Sweep:
     """The synthetic sweep for one scheduled measurement."""
     a = scenario.antenna(spec.antenna)
-    drift = a.model.f0_hz * _seasonal(spec.measured_at)
+    drift = a.model.f0_hz * _seasonal(spec.measured_at, a.drift)
     model: AntennaModel = Detuned(a.model, drift + spec.detune_hz)
     feedline = a.feedline.to_rf() if (a.feedline and spec.plane == "line_input") else None
     site = scenario.site(a.site)
