@@ -21,6 +21,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from functools import lru_cache
 from typing import Any
 
 import numpy as np
@@ -125,6 +126,14 @@ class DtfResult:
         return d
 
 
+@lru_cache(maxsize=32)
+def _window(n: int, kind: str, beta: float) -> FloatArray:
+    """The window and its sum, cached: a sweep's length repeats across a club's records."""
+    w = kaiser(n, beta, sym=True) if kind == "kaiser" else np.ones(n)
+    w.flags.writeable = False
+    return w
+
+
 def _uniform(sweep: Sweep) -> tuple[FloatArray, NDArray[np.complex128], bool]:
     f, g = sweep.freq_hz, sweep.gamma
     step = np.diff(f)
@@ -205,19 +214,21 @@ def distance_to_fault(
             f"onto {n} uniform points"
         )
 
-    w = kaiser(n, beta, sym=True) if window == "kaiser" else np.ones(n)
+    w = _window(n, window, float(beta))
     m = sfft.next_fast_len(pad * n)
-    h = sfft.ifft(w * g, m) * (m / np.sum(w))
+    buf = np.zeros(m, dtype=np.complex128)  # zero padding, windowed in place
+    np.multiply(w, g, out=buf[:n])
+    mag = np.abs(sfft.ifft(buf, overwrite_x=True))
+    mag *= m / float(np.sum(w))  # ifft's 1/M and the window's coherent gain
     df = span / (n - 1)
     dd = vf * C0 / (2.0 * m * df)  # distance per output sample
     distance = np.arange(m) * dd
-    mag = np.abs(h)
 
     alpha = None
     compensated = False
     if cable is not None and compensate_loss:
         alpha = float(cable.alpha_np_per_m(np.array([0.5 * (f[0] + f[-1])]))[0])
-        mag = mag * np.exp(2.0 * alpha * distance)
+        mag *= np.exp(2.0 * alpha * distance)
         compensated = True
         notes.append(
             f"loss compensated with {cable.name}'s α = {alpha:.4g} Np/m at the sweep centre; "
