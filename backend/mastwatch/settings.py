@@ -66,6 +66,8 @@ class Settings(BaseSettings):
     )
     smtp_host: str | None = Field(default=None, description="SMTP server for e-mail alerts.")
     smtp_port: int = Field(default=25, description="SMTP server port.")
+    smtp_user: str | None = Field(default=None, description="SMTP login user (STARTTLS).")
+    smtp_password: str | None = Field(default=None, description="SMTP login password.")
     smtp_from: str | None = Field(default=None, description="Sender address of e-mail alerts.")
     smtp_to: list[str] = Field(
         default_factory=list, description="Recipients of e-mail alerts (JSON list in env)."
