@@ -12,7 +12,7 @@ only: SWR, |Γ| dB, return loss or |Γ| (a sweep with ``has_phase=False``).
 |Γ| in dB is negative and return loss is positive (RL = −20·log10|Γ|, see Bird 2009 in
 REFERENCES.md §2); a column of the wrong sign for its name is refused with a hint.
 
-Delimiter: tab, semicolon or comma, whichever the header (or first row) uses most;
+Delimiter: tab, else semicolon, else comma, as the header (or first row) uses them;
 whitespace when none. With tab, semicolon or whitespace a decimal comma is accepted.
 A frequency column without a unit is read as Hz when every frequency is at least
 100 000 (as MHz that would be beyond 100 GHz); otherwise the unit must be given.
@@ -181,9 +181,12 @@ def _looks_numeric(s: str) -> bool:
 
 
 def _delimiter(line: str) -> str | None:
-    counts = {d: line.count(d) for d in ("\t", ";", ",")}
-    best = max(counts, key=lambda d: counts[d])
-    return best if counts[best] else None
+    """Tab, else semicolon, else comma, else None (whitespace).
+
+    Semicolon before comma: files that use semicolons do so because the comma is
+    their decimal mark (common practice in European locales).
+    """
+    return next((d for d in ("\t", ";", ",") if d in line), None)
 
 
 def _split(line: str, delim: str | None) -> list[str]:

@@ -39,7 +39,7 @@ def decode_text(data: bytes) -> str:
     """UTF-8 text with ``\\n`` line ends, or SweepFormatError if these bytes are not text."""
     if len(data) > MAX_FILE_BYTES:
         raise SweepFormatError(
-            f"the file is {len(data) / 1e6:.1f} MB; the limit is {MAX_FILE_BYTES / 1e6:.0f} MB "
+            f"the file is {len(data) / 2**20:.1f} MB; the limit is {MAX_FILE_BYTES / 2**20:g} MB "
             f"({MAX_FILE_BYTES} bytes)"
         )
     nul = data.find(b"\x00")
