@@ -166,7 +166,9 @@ def sweep_data(session: Session, sweep_id: int, max_points: int | None = None) -
     row = get_sweep(session, sweep_id, arrays=True)
     measured = codec.measured_sweep(row)
     feed = codec.feedpoint_sweep(row)
-    sweeps = [measured] + ([feed] if feed is not None else [])
+    # A feedpoint-plane sweep is its own feedpoint view: one magnitude array to keep.
+    distinct_feed = feed is not None and row.reference_plane == "line_input"
+    sweeps = [measured] + ([feed] if distinct_feed and feed is not None else [])
     if max_points is None:
         idx = np.arange(measured.points)
     else:
