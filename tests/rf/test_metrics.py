@@ -145,6 +145,18 @@ def test_sign_change_through_a_pole_is_not_a_resonance() -> None:
     assert res.hz == pytest.approx(f0, rel=1e-4)
 
 
+def test_coarse_low_r_series_resonance_is_kept() -> None:
+    # a series LC with 0.05 Ω loss (Q ≈ 5000) on a 50 kHz grid: |X| ≫ R at both
+    # neighbours, but X rises smoothly through zero (a zero, not a pole: Foster)
+    f0, q, r = 10e6, 5000.0, 0.05
+    f = np.linspace(9.0e6, 11.05e6, 42) + 13e3
+    (res,) = compute_metrics(series_rlc(f, f0, q, r)).resonances
+    assert res.kind == "series"
+    step = f[1] - f[0]
+    assert abs(res.hz - f0) < f0 * (step / f0) ** 2  # second-order interpolation error
+    assert res.q == pytest.approx(q, rel=0.01)  # Yaghjian–Best = ω0L/R (circuit theory)
+
+
 def test_resonance_q_is_none_where_r_is_not_positive() -> None:
     # R < 0 (an active or badly calibrated reading): the crossing is reported, Q is not
     f = np.linspace(7.0e6, 7.2e6, 21)

@@ -26,12 +26,16 @@ Resonances: where X = Im Z changes sign between adjacent points, located by line
 interpolation of X; series if X rises through zero (dX/df > 0), parallel if it
 falls. r_ohm is R interpolated linearly at the crossing. **Pole rule**: X also flips
 sign through infinity at an open-circuit pole (a lossless or nearly lossless
-anti-resonance the sweep does not resolve). A sign change where both neighbouring
-points have |X| > POLE_RATIO (10) × the larger of their two R values is such a pole
-(or a resonance far narrower than the point spacing) and is not reported: no
-interpolated location, R or Q from those two points would mean anything. A
-resolved resonance of loaded Q has |X|/R = 2Q·|δ| at fractional detuning δ, so the
-rule only drops crossings whose neighbours both lie beyond ±5 half-bandwidths.
+anti-resonance the sweep does not resolve). By Foster's reactance theorem a lossless
+reactance rises with frequency between poles, so a pole shows only as a *falling*
+sign change (+ to −). A falling sign change where both neighbouring points have
+|X| > POLE_RATIO (10) × the larger of their two R values is taken as such a pole (or
+a parallel resonance far narrower than the point spacing) and is not reported: no
+interpolated location, R or Q from those two points would mean anything. A resolved
+resonance of loaded Q has |X|/R = 2Q·|δ| at fractional detuning δ, so the rule only
+drops crossings whose neighbours both lie beyond ±5 half-bandwidths. A *rising*
+crossing is a zero of a smooth X and is always reported, however small R is (a
+near-short, a low-loss shorted stub).
 
 Q (Yaghjian & Best, IEEE Trans. Antennas Propag. 53(4), 2005): Q ≈ ω0·|Z′(ω0)|/(2·R(ω0))
 with Z′ = dZ/dω. ω·dZ/dω = f·dZ/df, so no 2π appears. Z′ at the crossing is the
@@ -68,7 +72,7 @@ DEFAULT_THRESHOLDS: tuple[float, ...] = (1.5, 2.0, 3.0)
 USABLE_SWR = 2.0
 """SWR limit of ``usable_fraction_2`` and ``bandwidth_2_hz``."""
 POLE_RATIO = 10.0
-"""A sign change of X with |X| > POLE_RATIO·R on both sides is a pole, not a resonance."""
+"""A falling sign change of X with |X| > POLE_RATIO·R on both sides is a pole, not a resonance."""
 
 PHASE_METRICS: tuple[str, ...] = (
     "resonances",
@@ -409,7 +413,9 @@ def _resonances(sweep: Sweep) -> tuple[Resonance, ...]:
     za, zb = _impedance(sweep, k), _impedance(sweep, k + 1)
     xa, xb, ra, rb = za.imag, zb.imag, za.real, zb.real
     finite = np.isfinite(za) & np.isfinite(zb)
-    pole = np.minimum(np.abs(xa), np.abs(xb)) > POLE_RATIO * np.maximum(np.abs(ra), np.abs(rb))
+    falling = xb < xa
+    big_x = np.minimum(np.abs(xa), np.abs(xb)) > POLE_RATIO * np.maximum(np.abs(ra), np.abs(rb))
+    pole = falling & big_x
     keep = finite & ~pole
     k, xa, xb, ra, rb = k[keep], xa[keep], xb[keep], ra[keep], rb[keep]
     if k.size == 0:
