@@ -227,10 +227,12 @@ def test_water_raises_the_line_loss_as_asked(factor, wet_m):
     dry_db = (cable.k1 * np.sqrt(f / 1e6) + cable.k2 * f / 1e6) / 100.0 * length
     wet_share = 1.0 if wet_m is None else wet_m / length
     expected_one_way = dry_db * ((1 - wet_share) + factor * wet_share)
-    water = WaterInLine(loss_factor=factor, wet_length_m=wet_m, z0_step_ohm=0.0,
-                        velocity_factor_ratio=1.0)
-    s = synthesize(Dipole(145e6), 140e6, 150e6, 101, feedline=fl,
-                   damage=(water, LineBreak("short")))
+    water = WaterInLine(
+        loss_factor=factor, wet_length_m=wet_m, z0_step_ohm=0.0, velocity_factor_ratio=1.0
+    )
+    s = synthesize(
+        Dipole(145e6), 140e6, 150e6, 101, feedline=fl, damage=(water, LineBreak("short"))
+    )
     np.testing.assert_allclose(s.return_loss_db, 2 * expected_one_way, rtol=1e-9)
     dry = synthesize(Dipole(145e6), 140e6, 150e6, 101, feedline=fl, damage=(LineBreak("short"),))
     np.testing.assert_allclose(dry.return_loss_db, 2 * dry_db, rtol=1e-9)
@@ -253,14 +255,22 @@ def test_water_makes_a_small_impedance_step_where_the_wet_part_starts():
 def test_open_at_a_distance_is_seen_through_that_much_line_only():
     cable = get_cable("RG-58")
     fl = Feedline(cable, 15.0)
-    s = synthesize(Vertical(14.18e6), 13.6e6, 14.8e6, 201, feedline=fl,
-                   damage=(LineBreak("open", distance_m=6.2),))
+    s = synthesize(
+        Vertical(14.18e6),
+        13.6e6,
+        14.8e6,
+        201,
+        feedline=fl,
+        damage=(LineBreak("open", distance_m=6.2),),
+    )
     expected = np.exp(-2 * _gamma_line(cable, s.freq_hz, 6.2))  # Γ_L = +1 (open)
     np.testing.assert_allclose(s.gamma, expected, rtol=1e-12)
-    short = synthesize(Vertical(14.18e6), 13.6e6, 14.8e6, 201, feedline=fl,
-                       damage=(LineBreak("short"),))
-    np.testing.assert_allclose(short.gamma, -np.exp(-2 * _gamma_line(cable, short.freq_hz, 15.0)),
-                               rtol=1e-12)
+    short = synthesize(
+        Vertical(14.18e6), 13.6e6, 14.8e6, 201, feedline=fl, damage=(LineBreak("short"),)
+    )
+    np.testing.assert_allclose(
+        short.gamma, -np.exp(-2 * _gamma_line(cable, short.freq_hz, 15.0)), rtol=1e-12
+    )
 
 
 def test_mid_line_reflection_equals_the_cascade_written_out():
@@ -285,8 +295,9 @@ def test_noise_has_the_requested_rms_and_stays_inside_the_unit_circle():
     noisy = synthesize(Dipole(7.1e6), 6.5e6, 7.7e6, 20001, noise=0.003, seed=3)
     rms = float(np.sqrt(np.mean(np.abs(noisy.gamma - clean.gamma) ** 2)))
     assert rms == pytest.approx(0.003, rel=0.03)  # 20,001 samples: ~0.5 % standard error
-    near_open = synthesize(Dipole(7.1e6), 6.5e6, 7.7e6, 2001, noise=0.05, seed=1,
-                           damage=(LineBreak("open"),))
+    near_open = synthesize(
+        Dipole(7.1e6), 6.5e6, 7.7e6, 2001, noise=0.05, seed=1, damage=(LineBreak("open"),)
+    )
     assert near_open.gamma_mag.max() <= 1.0
 
 
@@ -304,11 +315,23 @@ def test_bad_arguments_say_what_is_wrong():
     with pytest.raises(ValueError, match="needs a feedline"):
         synthesize(Dipole(7.1e6), 6e6, 8e6, 11, damage=(WaterInLine(),))
     with pytest.raises(ValueError, match="beyond the 30 m feedline"):
-        synthesize(Dipole(7.1e6), 6e6, 8e6, 11, feedline=Feedline(get_cable("RG-213"), 30.0),
-                   damage=(MidLineReflection(distance_m=31.0),))
+        synthesize(
+            Dipole(7.1e6),
+            6e6,
+            8e6,
+            11,
+            feedline=Feedline(get_cable("RG-213"), 30.0),
+            damage=(MidLineReflection(distance_m=31.0),),
+        )
     with pytest.raises(ValueError, match="at most one LineBreak"):
-        synthesize(Dipole(7.1e6), 6e6, 8e6, 11, feedline=Feedline(get_cable("RG-213"), 30.0),
-                   damage=(LineBreak("open"), LineBreak("short", 3.0)))
+        synthesize(
+            Dipole(7.1e6),
+            6e6,
+            8e6,
+            11,
+            feedline=Feedline(get_cable("RG-213"), 30.0),
+            damage=(LineBreak("open"), LineBreak("short", 3.0)),
+        )
     with pytest.raises(ValueError, match="0 < f_start < f_stop"):
         synthesize(Dipole(7.1e6), 8e6, 6e6, 11)
     with pytest.raises(ValueError, match="at least 2 points"):

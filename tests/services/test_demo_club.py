@@ -71,16 +71,20 @@ def test_scenario_has_three_sites_about_ten_antennas_two_storms_and_a_repair():
     assert len({(a.site, a.name) for a in SCENARIO.antennas}) == len(SCENARIO.antennas)
     repair = next(e for e in SCENARIO.events if e.kind == "repair")
     assert repair.antenna == SCENARIO.repaired
-    storm = next(e for e in SCENARIO.events if e.kind == "storm" and e.occurred_at ==
-                 SCENARIO.storm_at)
+    storm = next(
+        e for e in SCENARIO.events if e.kind == "storm" and e.occurred_at == SCENARIO.storm_at
+    )
     assert storm.site == SCENARIO.storm_site
 
 
 def test_scenario_is_invented_and_well_formed():
     # Q-prefix call signs only: no country issues them, so no real holder.
     text = " ".join(
-        [SCENARIO.call_sign, *(s.operator for s in SCENARIO.sweeps),
-         *(a.notes for a in SCENARIO.antennas)]
+        [
+            SCENARIO.call_sign,
+            *(s.operator for s in SCENARIO.sweeps),
+            *(a.notes for a in SCENARIO.antennas),
+        ]
     )
     for call in re.findall(r"\b[A-Z]{1,2}[0-9][A-Z]{1,3}\b", text):
         assert call.startswith("Q"), call
@@ -221,8 +225,10 @@ def test_loader_loads_the_club_into_a_fresh_database(session, clean_db):
     from mastwatch.db.models import Sweep as SweepRow
     from mastwatch.db.models import SweepMetrics
 
-    stored = {(r.antenna_id, r.measured_at.replace(tzinfo=None)): r for r in
-              session.scalars(select(SweepRow))}
+    stored = {
+        (r.antenna_id, r.measured_at.replace(tzinfo=None)): r
+        for r in session.scalars(select(SweepRow))
+    }
     rows: dict[int, set[tuple[str, str]]] = {}
     for m in session.scalars(select(SweepMetrics)):
         rows.setdefault(m.sweep_id, set()).add((m.band, m.plane))

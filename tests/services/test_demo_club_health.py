@@ -32,19 +32,26 @@ def _view(spec: SweepSpec) -> SweepView:
 
 def _baseline_for(spec: SweepSpec) -> SweepSpec:
     """The first sweep of the antenna, or the first after its latest repair before ``spec``."""
-    repairs = [e.occurred_at for e in SCENARIO.events
-               if e.kind == "repair" and e.antenna == spec.antenna
-               and e.occurred_at < spec.measured_at]
+    repairs = [
+        e.occurred_at
+        for e in SCENARIO.events
+        if e.kind == "repair" and e.antenna == spec.antenna and e.occurred_at < spec.measured_at
+    ]
     since = max(repairs) if repairs else None
-    return next(s for s in SCENARIO.sweeps if s.antenna == spec.antenna
-                and (since is None or s.measured_at > since))
+    return next(
+        s
+        for s in SCENARIO.sweeps
+        if s.antenna == spec.antenna and (since is None or s.measured_at > since)
+    )
 
 
 def _verdict(spec: SweepSpec) -> Verdict:
     a = SCENARIO.antenna(spec.antenna)
     line = a.feedline.to_rf() if a.feedline else None
     return judge(
-        _view(spec), _view(_baseline_for(spec)), bands=list(a.bands),
+        _view(spec),
+        _view(_baseline_for(spec)),
+        bands=list(a.bands),
         velocity_factor=line.cable.velocity_factor if line else None,
         line_length_m=line.length_m if line else None,
     )
@@ -69,16 +76,18 @@ def test_the_damaging_storm_flags_exactly_the_two_damaged_antennas():
     for key in SCENARIO.damaged:
         assert check[key].status == "fault", (key, check[key].reasons)
     codes = {key: {f.code for f in check[key].findings} for key in SCENARIO.damaged}
-    detuned = next(k for k in SCENARIO.damaged if any(
-        s.detune_hz for s in SCENARIO.sweeps if s.antenna == k))
+    detuned = next(
+        k for k in SCENARIO.damaged if any(s.detune_hz for s in SCENARIO.sweeps if s.antenna == k)
+    )
     wet = next(k for k in SCENARIO.damaged if k != detuned)
     assert "lossy_feedline" in codes[wet], check[wet].reasons
     assert any("resonance moved" in r for r in check[detuned].reasons), check[detuned].reasons
 
 
 def test_the_first_storm_damaged_nothing():
-    storm1 = next(e for e in SCENARIO.events
-                  if e.kind == "storm" and e.occurred_at != SCENARIO.storm_at)
+    storm1 = next(
+        e for e in SCENARIO.events if e.kind == "storm" and e.occurred_at != SCENARIO.storm_at
+    )
     check = _site_check(storm1.site, storm1.occurred_at)
     assert {k: v.status for k, v in check.items()} == dict.fromkeys(check, "ok")
 

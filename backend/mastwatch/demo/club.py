@@ -397,7 +397,7 @@ EVENTS = (
         "note",
         "Cable crushed in the trailer door",
         "The sweep after loading the trailer showed an open line: the RG-58 was "
-              "crushed and its centre conductor broken about 6 m from the radio end.",
+        "crushed and its centre conductor broken about 6 m from the radio end.",
         antenna="vert20p",
     ),
     EventSpec(

@@ -47,7 +47,7 @@ def load(session: Session, scenario: Scenario) -> DemoSummary:
 
     antenna_ids: dict[str, int] = {}
     for a in scenario.antennas:
-        row = antenna_service.create_antenna(
+        antenna = antenna_service.create_antenna(
             session,
             {
                 "site_id": site_ids[a.site],
@@ -58,11 +58,11 @@ def load(session: Session, scenario: Scenario) -> DemoSummary:
                 "notes": a.notes,
             },
         )
-        antenna_ids[a.key] = row.id
+        antenna_ids[a.key] = antenna.id
         if a.feedline is not None:
             antenna_service.set_feedline(
                 session,
-                row.id,
+                antenna.id,
                 {
                     "cable": a.feedline.cable,
                     "length_m": a.feedline.length_m,

@@ -64,8 +64,13 @@ def _check_positive(**values: float) -> None:
             raise ValueError(f"{name} must be a positive finite number, got {v!r}")
 
 
+def _c(z: object) -> ComplexArray:
+    """As a complex128 array (the models' one return type)."""
+    return np.asarray(z, dtype=np.complex128)
+
+
 def _coth(x: ComplexArray) -> ComplexArray:
-    return 1.0 / np.tanh(x)
+    return _c(1.0 / np.tanh(x))
 
 
 def _freqs(freq_hz: FloatArray) -> FloatArray:
@@ -108,7 +113,7 @@ class SeriesRLC:
 
     def impedance(self, freq_hz: FloatArray) -> ComplexArray:
         w = 2 * np.pi * _freqs(freq_hz)
-        return self.r_ohm + 1j * (w * self.l_h - 1.0 / (w * self.c_f))
+        return _c(self.r_ohm + 1j * (w * self.l_h - 1.0 / (w * self.c_f)))
 
     def describe(self) -> str:
         return f"series RLC R={self.r_ohm:g} ohm, L={self.l_h:.6g} H, C={self.c_f:.6g} F"
@@ -288,7 +293,7 @@ class Yagi:
     def impedance(self, freq_hz: FloatArray) -> ComplexArray:
         w = 2 * np.pi * _freqs(freq_hz)
         y = 1.0 / self.element.impedance(freq_hz) + 1.0 / (1j * w * self.hairpin_l_h)
-        return 1.0 / y
+        return _c(1.0 / y)
 
     def describe(self) -> str:
         return (
@@ -320,7 +325,7 @@ class _ParallelMatched:
 
     def impedance(self, freq_hz: FloatArray) -> ComplexArray:
         ratio = _freqs(freq_hz) / self.f0_hz
-        return self.r_ohm / (1 + 1j * self.q * (ratio - 1 / ratio))
+        return _c(self.r_ohm / (1 + 1j * self.q * (ratio - 1 / ratio)))
 
 
 @dataclass(frozen=True)
