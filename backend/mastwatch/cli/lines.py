@@ -12,7 +12,7 @@ from __future__ import annotations
 import json
 import math
 from pathlib import Path
-from typing import Annotated, Any
+from typing import Annotated
 
 import numpy as np
 import typer
@@ -27,8 +27,14 @@ from mastwatch.cli.analyze import (
     load_sweep,
     parse_frequency,
 )
-from mastwatch.rf.dtf import DEFAULT_THRESHOLD_DB, WINDOWS, DtfResult, distance_to_fault
-from mastwatch.rf.errors import AnalysisError, RFError
+from mastwatch.rf.dtf import (
+    DEFAULT_THRESHOLD_DB,
+    SAFETY_NOTE,
+    WINDOWS,
+    DtfResult,
+    distance_to_fault,
+)
+from mastwatch.rf.errors import RFError
 from mastwatch.rf.limits import MAX_PASSIVE_GAMMA
 from mastwatch.rf.lines import (
     FEET,
@@ -40,15 +46,7 @@ from mastwatch.rf.lines import (
     parse_length,
     passivity_margin,
 )
-from mastwatch.rf.matching import l_networks, load_hint, matched_sweep
-from mastwatch.rf.metrics import compute_metrics, value_at
-from mastwatch.rf.sweep import Sweep
-
-SAFETY_NOTE = (
-    "Safety: inspecting a feedline means roofs and towers. Never climb alone or in a "
-    "storm, stay well clear of power lines, keep the lightning protection in place, and "
-    "follow local codes and licensed practice."
-)
+from mastwatch.rf.matching import match_summary
 
 
 def _fail(file: str, exc: BaseException) -> typer.Exit:
@@ -196,29 +194,6 @@ def dtf(
 # -- match -----------------------------------------------------------------------------
 
 
-def match_report(sweep: Sweep, at_hz: float, z0: float) -> dict[str, Any]:
-    """The networks for the sweep's impedance at ``at_hz`` and each one's SWR≤2 bandwidth."""
-    if not sweep.has_phase:
-        raise AnalysisError("matching needs the phase of Γ; this sweep has SWR only")
-    p = value_at(sweep, at_hz)
-    if p.r_ohm is None or p.x_ohm is None:
-        raise AnalysisError(f"no finite impedance at {at_hz / 1e6:.6g} MHz (an open or short)")
-    z = complex(p.r_ohm, p.x_ohm)
-    nets = []
-    for n in l_networks(z, at_hz, z0):
-        bw = compute_metrics(matched_sweep(sweep, n), (), thresholds=(2.0,)).swr_bandwidths[0]
-        nets.append({**n.to_dict(), "swr_bandwidth_2": bw.to_dict()})
-    return {
-        "at_hz": at_hz,
-        "z0_ohm": z0,
-        "load_r_ohm": z.real,
-        "load_x_ohm": z.imag,
-        "load_swr": p.swr if p.swr is not None and math.isfinite(p.swr) else None,
-        "hint": load_hint(z, at_hz),
-        "networks": nets,
-    }
-
-
 def match(
     file: Annotated[Path, typer.Argument(help="Sweep file.")],
     at: Annotated[str, typer.Option("--at", help="Design frequency, e.g. 7.1MHz.")],
@@ -254,7 +229,7 @@ def match(
         sweep = load_sweep(file, columns)
         if line is not None:
             sweep = deembed(sweep, line)
-        report = match_report(sweep, at_hz, z0)
+        report = match_summary(sweep, at_hz, z0)
     except (OSError, RFError) as e:
         raise _fail(name, e) from None
     if line is not None:

@@ -49,6 +49,13 @@ of an open sit near −44 dB, so they stay below it."""
 
 WINDOWS = ("kaiser", "rect")
 
+SAFETY_NOTE = (
+    "Safety: inspecting a feedline means roofs and towers. Never climb alone or in a "
+    "storm, stay well clear of power lines, keep the lightning protection in place, and "
+    "follow local codes and licensed practice."
+)
+"""Shown with every distance-to-fault result (CLI and API): it sends someone up a mast."""
+
 
 @dataclass(frozen=True)
 class DtfPeak:

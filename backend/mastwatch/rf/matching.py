@@ -30,6 +30,7 @@ from typing import Literal
 import numpy as np
 
 from mastwatch.rf.errors import AnalysisError
+from mastwatch.rf.metrics import compute_metrics, value_at
 from mastwatch.rf.sweep import Sweep
 
 Topology = Literal["shunt_at_load", "series_at_load"]
@@ -278,3 +279,27 @@ def load_hint(z_load: complex, f_hz: float) -> str:
         f"the load is capacitive {at} (X = {x:.3g} Ω): the antenna is electrically "
         "short here; the match needs inductance to cancel it (or lengthen the antenna)"
     )
+
+
+def match_summary(sweep: Sweep, at_hz: float, z0: float = 50.0) -> dict[str, object]:
+    """JSON-safe: the networks for the sweep's impedance at ``at_hz`` (Γ interpolated as
+    ``metrics.value_at`` does) and each one's SWR≤2 bandwidth over the whole sweep."""
+    if not sweep.has_phase:
+        raise AnalysisError("matching needs the phase of Γ; this sweep has SWR only")
+    p = value_at(sweep, at_hz)
+    if p.r_ohm is None or p.x_ohm is None:
+        raise AnalysisError(f"no finite impedance at {at_hz / 1e6:.6g} MHz (an open or short)")
+    z = complex(p.r_ohm, p.x_ohm)
+    nets = []
+    for n in l_networks(z, at_hz, z0):
+        bw = compute_metrics(matched_sweep(sweep, n), (), thresholds=(2.0,)).swr_bandwidths[0]
+        nets.append({**n.to_dict(), "swr_bandwidth_2": bw.to_dict()})
+    return {
+        "at_hz": float(at_hz),
+        "z0_ohm": float(z0),
+        "load_r_ohm": z.real,
+        "load_x_ohm": z.imag,
+        "load_swr": p.swr if p.swr is not None and math.isfinite(p.swr) else None,
+        "hint": load_hint(z, at_hz),
+        "networks": nets,
+    }
