@@ -158,3 +158,16 @@ def test_to_dict_is_json_safe() -> None:
     assert back["resolution_m"] == pytest.approx(0.2473, abs=5e-5)
     assert len(back["peaks"]) == 3 and len(back["distance_m"]) == len(back["reflection"])
     assert back["cable"] == "RG-58" and back["loss_compensated"] is True
+
+
+def test_decimation_keeps_every_peak() -> None:
+    g = _skrf_faulty_line(F401, 50.0, 0.0)
+    r = distance_to_fault(Sweep(F401, g), 0.66)
+    d, refl = r.decimated(300)
+    assert d.size <= 300 and np.all(np.diff(d) > 0)
+    for p in r.peaks:
+        near = np.abs(d - p.distance_m) < r.resolution_m
+        assert np.max(refl[near]) >= 0.99 * p.reflection
+    assert len(r.to_dict(arrays=True, max_points=300)["distance_m"]) == d.size
+    with pytest.raises(ValueError, match="at least 2"):
+        r.decimated(1)

@@ -106,8 +106,24 @@ class DtfResult:
         with np.errstate(divide="ignore"):
             return -20.0 * np.log10(self.reflection)
 
-    def to_dict(self, arrays: bool = False) -> dict[str, Any]:
-        """JSON-safe summary; with ``arrays`` also the distance and reflection lists."""
+    def decimated(self, max_points: int) -> tuple[FloatArray, FloatArray]:
+        """At most ``max_points`` (distance, reflection) pairs for a plot: the largest
+        reflection of each block of samples, so no peak is lost."""
+        n = self.reflection.size
+        if max_points < 2:
+            raise ValueError(f"max_points must be at least 2, got {max_points}")
+        if n <= max_points:
+            return self.distance_m, self.reflection
+        block = -(-n // max_points)  # ceil
+        blocks = -(-n // block)
+        pad = blocks * block - n
+        mag = np.concatenate([self.reflection, np.full(pad, -np.inf)]).reshape(blocks, block)
+        pick = np.argmax(mag, axis=1) + np.arange(blocks) * block
+        return self.distance_m[pick], self.reflection[pick]
+
+    def to_dict(self, arrays: bool = False, max_points: int | None = None) -> dict[str, Any]:
+        """JSON-safe summary; with ``arrays`` also the distance and reflection lists
+        (block maxima down to ``max_points`` when given)."""
         d: dict[str, Any] = {
             "resolution_m": self.resolution_m,
             "range_m": self.range_m,
@@ -128,8 +144,11 @@ class DtfResult:
             "peaks": [p.to_dict() for p in self.peaks],
         }
         if arrays:
-            d["distance_m"] = self.distance_m.tolist()
-            d["reflection"] = self.reflection.tolist()
+            dist, refl = (
+                self.decimated(max_points) if max_points else (self.distance_m, self.reflection)
+            )
+            d["distance_m"] = dist.tolist()
+            d["reflection"] = refl.tolist()
         return d
 
 
