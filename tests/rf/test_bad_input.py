@@ -341,3 +341,11 @@ def test_column_spec_count_differs_from_header() -> None:
     e = failure("Freq (MHz),SWR,Note\n7.0,1.5,x\n", "a.csv", columns="freq:MHz,swr")
     assert e.line == 1
     assert "names 2 columns but the header has 3" in e.message
+
+
+def test_two_port_five_numbers_above_last_frequency_is_not_noise() -> None:
+    # TS 1.1: noise data start only where the frequency is ≤ the last network frequency.
+    e = failure("# MHz S RI R 50\n1 0.1 0 0.9 0 0.9 0 0.1 0\n2 0.1 0 0.9 0 0.9 0 0.1 0\n"
+                "3 1.5 0.3 45 0.2\n", "cable.s2p")
+    assert e.line == 4
+    assert "expected 9 numbers" in e.message and "found 5" in e.message

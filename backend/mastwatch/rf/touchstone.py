@@ -246,12 +246,24 @@ def _fast_rows(lines: list[str], start: int, stop: int, width: int) -> np.ndarra
 
 
 def _tokens(content: str, line: int) -> list[float]:
-    out: list[float] = []
-    for tok in content.split():
-        if not NUMBER.fullmatch(tok):
-            raise SweepFormatError(f"'{tok}' is not a number", line)
-        out.append(float(tok))
-    return out
+    toks = content.split()
+    if not all(map(NUMBER.fullmatch, toks)):
+        bad = next(t for t in toks if not NUMBER.fullmatch(t))
+        raise SweepFormatError(f"'{bad}' is not a number", line)
+    return list(map(float, toks))
+
+
+def _trailing_noise_start(lines: list[str], start: int) -> int | None:
+    """Index of the first line of a trailing run of 5-number lines (v1 two-port noise data)."""
+    found = None
+    for k in range(len(lines) - 1, start - 1, -1):
+        tokens = lines[k].partition("!")[0].split()
+        if not tokens:
+            continue
+        if len(tokens) != 5:
+            break
+        found = k
+    return found
 
 
 def _describe(ports: int, width: int) -> str:
@@ -560,7 +572,17 @@ def read_touchstone(text: str, *, ports: int | None = None, filename: str | None
             if "[" in lines[k] and lines[k].partition("!")[0].lstrip().startswith("["):
                 stop = k
                 break
+    elif nports == 2:
+        # v1 noise data: numpy reads the network block up to it when the first noise
+        # line's frequency is not above the last network frequency (TS 1.1).
+        noise = _trailing_noise_start(lines, start)
+        first_noise = lines[noise].partition("!")[0].split()[0] if noise is not None else ""
+        if noise is not None and NUMBER.fullmatch(first_noise):
+            stop = noise
     values = _fast_rows(lines, start, stop, width)
+    if (values is not None and stop < len(lines) and h.version == 1
+            and not float(lines[stop].partition("!")[0].split()[0]) <= values[-1, 0]):
+        values = None  # not noise after all: let the careful scan say what is wrong
     if values is not None and values.shape[0] <= MAX_POINTS:
         block = _Block(values, None, lines, start)
     else:
