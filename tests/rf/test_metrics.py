@@ -157,6 +157,32 @@ def test_coarse_low_r_series_resonance_is_kept() -> None:
     assert res.q == pytest.approx(q, rel=0.01)  # Yaghjian–Best = ω0L/R (circuit theory)
 
 
+@pytest.mark.parametrize("seed", range(6))
+def test_trace_noise_does_not_split_a_resonance(seed: int) -> None:
+    # series RLC (circuit theory: f0 = 1/(2π√(LC)), Q = ω0L/R) plus complex Gaussian
+    # noise of RMS |ΔΓ| 0.003 (seeded): near f0 the noise flips the sign of X several
+    # times between neighbouring points; the metrics must report one series resonance
+    f0, q = 14.2e6, 10.0
+    f = np.linspace(13.2e6, 15.2e6, 2001)
+    clean = series_rlc(f, f0, q, 50.0)
+    rng = np.random.default_rng(seed)
+    noise = 0.003 * (rng.standard_normal(f.size) + 1j * rng.standard_normal(f.size)) / math.sqrt(2)
+    noisy = clean.with_gamma(clean.gamma + noise)
+    neg = noisy.gamma.imag < 0
+    assert np.count_nonzero(neg[1:] != neg[:-1]) >= 3  # the raw sign changes
+    (res,) = compute_metrics(noisy).resonances
+    assert res.kind == "series"
+    assert res.hz == pytest.approx(f0, rel=5e-4)
+    assert res.q == pytest.approx(q, rel=0.15)  # noise-limited; clean sweeps: 1 % (reference)
+
+
+def test_touching_zero_is_not_a_resonance_pair() -> None:
+    # X = 0 exactly at one point with the same sign on both sides: no crossing
+    f = np.linspace(7.0e6, 7.2e6, 21)
+    x = -np.abs(f - 7.1e6) * 1e-4
+    assert compute_metrics(Sweep.from_impedance(f, 50 + 1j * x)).resonances == ()
+
+
 def test_resonance_q_is_none_where_r_is_not_positive() -> None:
     # R < 0 (an active or badly calibrated reading): the crossing is reported, Q is not
     f = np.linspace(7.0e6, 7.2e6, 21)

@@ -37,6 +37,13 @@ drops crossings whose neighbours both lie beyond ±5 half-bandwidths. A *rising*
 crossing is a zero of a smooth X and is always reported, however small R is (a
 near-short, a low-loss shorted stub).
 
+Trace noise: a flat X (a broadband match) crosses zero several times in a row in
+noisy data. Crossings inside a deadband of ±3σ of Im Γ (σ estimated from the sweep's
+own second differences) merge: one crossing where the signs on the two sides of
+the deadband differ, none where they agree (see ``_crossings``). A merged crossing
+takes its Z′ from a least-squares slope over a window three times the cluster wide.
+Noise-free sweeps are unaffected (their deadband is the tiny curvature term).
+
 Q (Yaghjian & Best, IEEE Trans. Antennas Propag. 53(4), 2005): Q ≈ ω0·|Z′(ω0)|/(2·R(ω0))
 with Z′ = dZ/dω. ω·dZ/dω = f·dZ/df, so no 2π appears. Z′ at the crossing is the
 derivative of the quadratic through the three points around it (second-order
@@ -71,6 +78,8 @@ from mastwatch.rf.sweep import Sweep
 DEFAULT_THRESHOLDS: tuple[float, ...] = (1.5, 2.0, 3.0)
 USABLE_SWR = 2.0
 """SWR limit of ``usable_fraction_2`` and ``bandwidth_2_hz``."""
+NOISE_DEADBAND = 3.0
+"""Zero crossings of X inside ±NOISE_DEADBAND·σ(noise) of Im Γ are merged (see _crossings)."""
 POLE_RATIO = 10.0
 """A falling sign change of X with |X| > POLE_RATIO·R on both sides is a pole, not a resonance."""
 
@@ -400,35 +409,74 @@ def _impedance(sweep: Sweep, idx: np.ndarray) -> np.ndarray:
         return sweep.z0 * (1 + g) / (1 - g)
 
 
+def _crossings(y: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Point pairs (a, b) bracketing each zero crossing of y = Im Γ, noise clusters merged.
+
+    Raw crossings are sign changes between adjacent points. Trace noise makes a flat
+    X (a broadband match) cross zero several times in a row, so a deadband |y| ≤ ε is
+    set from the noise, estimated robustly from the second differences
+    (σ = 1.4826·median|Δ²y|/√6, ε = NOISE_DEADBAND·σ; on smooth noise-free data this is
+    only the tiny curvature term). Between two consecutive points outside the
+    deadband ("decided" points), the raw crossings are one crossing if the decided signs
+    differ, and none if they agree. A lone raw crossing keeps its adjacent points
+    (the exact result); a merged cluster is bracketed by the two decided points.
+    """
+    neg = y < 0
+    k = np.flatnonzero(neg[:-1] != neg[1:])
+    if k.size <= 1 or y.size < 5:
+        return k, k + 1
+    d2 = y[2:] - 2.0 * y[1:-1] + y[:-2]
+    eps = NOISE_DEADBAND * 1.4826 * float(np.median(np.abs(d2))) / math.sqrt(6.0)
+    decided = np.flatnonzero(np.abs(y) > eps)
+    nd = decided.size
+    region = np.searchsorted(decided, k, "right")  # between decided[region−1] and decided[region]
+    counts = np.bincount(region, minlength=nd + 1)
+    lone = counts[region] == 1
+    interior = (region > 0) & (region < nd)
+    lo = decided[np.clip(region - 1, 0, max(nd - 1, 0))] if nd else k
+    hi = decided[np.clip(region, 0, max(nd - 1, 0))] if nd else k
+    flips = interior & (neg[lo] != neg[hi])
+    merged = np.unique(region[~lone & flips])
+    a = np.concatenate((k[lone], decided[merged - 1]))
+    b = np.concatenate((k[lone] + 1, decided[merged]))
+    order = np.argsort(a, kind="stable")
+    return a[order], b[order]
+
+
 def _resonances(sweep: Sweep) -> tuple[Resonance, ...]:
     f, g = sweep.freq_hz, sweep.gamma
     n = f.size
     if n < 2:
         return ()
     # X = z0·2·Im Γ/|1−Γ|², so X and Im Γ share their sign: find crossings without Z
-    neg = g.imag < 0
-    k = np.flatnonzero(neg[:-1] != neg[1:])
-    if k.size == 0:
+    ka, kb = _crossings(g.imag)
+    if ka.size == 0:
         return ()
-    za, zb = _impedance(sweep, k), _impedance(sweep, k + 1)
+    za, zb = _impedance(sweep, ka), _impedance(sweep, kb)
     xa, xb, ra, rb = za.imag, zb.imag, za.real, zb.real
     finite = np.isfinite(za) & np.isfinite(zb)
     falling = xb < xa
     big_x = np.minimum(np.abs(xa), np.abs(xb)) > POLE_RATIO * np.maximum(np.abs(ra), np.abs(rb))
-    pole = falling & big_x
-    keep = finite & ~pole
-    k, xa, xb, ra, rb = k[keep], xa[keep], xb[keep], ra[keep], rb[keep]
-    if k.size == 0:
+    keep = finite & ~(falling & big_x)
+    ka, kb, xa, xb, ra, rb = ka[keep], kb[keep], xa[keep], xb[keep], ra[keep], rb[keep]
+    if ka.size == 0:
         return ()
     t = xa / (xa - xb)
-    hz = f[k] + t * (f[k + 1] - f[k])
+    hz = f[ka] + t * (f[kb] - f[ka])
     r_res = ra + t * (rb - ra)
     if n >= 3:
-        # the quadratic through three points around the crossing:
+        # adjacent pair (k, k+1): the quadratic through three points around the crossing,
         # (k−1, k, k+1) if it lies in the lower half of its segment, else (k, k+1, k+2)
-        j = np.clip(np.where(t < 0.5, k - 1, k), 0, n - 3)
+        j = np.clip(np.where(t < 0.5, ka - 1, ka), 0, n - 3)
         idx = j[:, None] + np.arange(3)[None, :]
         dz = _quadratic_derivative(f[idx], _impedance(sweep, idx), hz)
+        # merged noise cluster (a, b): a least-squares slope over the cluster and as much
+        # again on each side, so the noise averages out (a few clusters per sweep at most)
+        for i in np.flatnonzero(kb > ka + 1):
+            width = int(kb[i] - ka[i])
+            w = np.arange(max(0, ka[i] - width), min(n, kb[i] + width + 1))
+            fw, zw = f[w] - f[w].mean(), _impedance(sweep, w)
+            dz[i] = np.sum(fw * (zw - zw.mean())) / np.sum(fw * fw)
     else:
         dz = (zb[keep] - za[keep]) / (f[1] - f[0])
     with np.errstate(divide="ignore", invalid="ignore"):
@@ -442,7 +490,7 @@ def _resonances(sweep: Sweep) -> tuple[Resonance, ...]:
             float(r_res[i]),
             float(q[i]) if q_ok[i] else None,
         )
-        for i in range(k.size)  # one entry per resonance found (a handful), not per point
+        for i in range(ka.size)  # one entry per resonance found (a handful), not per point
     )
 
 
