@@ -2,7 +2,7 @@
 
 Measured side by side in one run (median of repeats, ``time.perf_counter``):
 
-    ours   mastwatch.rf.parse.read_sweep(bytes) + compute_metrics(sweep, band_plan(1))
+    ours   read_sweep(file bytes) + compute_metrics(sweep, band_plan(1)) (all metrics)
     skrf   scikit-rf reading the same file into a Network (the general-purpose library)
     floor  numpy parsing the same numbers from a clean whitespace-separated buffer
            (the faster of np.loadtxt and np.fromstring; no comments, no checks)
@@ -28,17 +28,22 @@ from mastwatch.rf.sweep import Sweep
 from mastwatch.rf.touchstone import write_touchstone
 
 POINTS = 10_001
-REPEATS = 15
+REPEATS = 21
 
 
-def _median_seconds(fn: Callable[[], object], repeats: int = REPEATS) -> float:
-    fn()  # warm-up (imports, caches)
-    times = []
+def _medians(candidates: dict[str, Callable[[], object]], repeats: int = REPEATS
+             ) -> dict[str, float]:
+    """Median seconds of each candidate, run round-robin so that load from other processes
+    on a shared machine falls on all of them alike."""
+    for fn in candidates.values():
+        fn()  # warm-up (imports, caches)
+    times: dict[str, list[float]] = {name: [] for name in candidates}
     for _ in range(repeats):
-        t0 = time.perf_counter()
-        fn()
-        times.append(time.perf_counter() - t0)
-    return statistics.median(times)
+        for name, fn in candidates.items():
+            t0 = time.perf_counter()
+            fn()
+            times[name].append(time.perf_counter() - t0)
+    return {name: statistics.median(t) for name, t in times.items()}
 
 
 def _sweep() -> Sweep:
@@ -75,13 +80,18 @@ def _run(label: str, text: str) -> None:
         path.write_bytes(data)
 
         def ours() -> object:
-            return compute_metrics(read_sweep(data, "bench.s1p"), plan)
+            # from the file, as scikit-rf reads it, so both pay for the read
+            return compute_metrics(read_sweep(path.read_bytes(), path.name), plan)
 
-        parse_only = _median_seconds(lambda: read_sweep(data, "bench.s1p"))
-        t_ours = _median_seconds(ours)
-        t_skrf = _median_seconds(lambda: skrf.Network(str(path)), max(5, REPEATS // 2))
-        t_loadtxt = _median_seconds(lambda: np.loadtxt(io.StringIO(clean)))
-        t_fromstring = _median_seconds(lambda: np.fromstring(clean, sep=" "))
+        t = _medians({
+            "parse": lambda: read_sweep(data, "bench.s1p"),
+            "ours": ours,
+            "skrf": lambda: skrf.Network(str(path)),
+            "loadtxt": lambda: np.loadtxt(io.StringIO(clean)),
+            "fromstring": lambda: np.fromstring(clean, sep=" "),
+        })
+    parse_only, t_ours, t_skrf = t["parse"], t["ours"], t["skrf"]
+    t_loadtxt, t_fromstring = t["loadtxt"], t["fromstring"]
     floor = min(t_loadtxt, t_fromstring)
     print(f"{label}: {POINTS} points, {len(data) / 1e3:.0f} kB")
     print(f"  ours parse only        {parse_only * 1e3:8.2f} ms")
