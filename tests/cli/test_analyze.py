@@ -184,6 +184,31 @@ def test_columns_option_reaches_the_csv_reader(tmp_path: Path) -> None:
     assert doc["resonances"][0]["hz"] == pytest.approx(F0, rel=1e-6)
 
 
+def test_touchstone_2_and_two_port_files(tmp_path: Path) -> None:
+    # TS 2.0 keyword file (IBIS Open Forum, Touchstone 2.0 spec) and a v1 two-port whose
+    # S11 is the RLC's; the analysis is the same as for the one-port file
+    s = rlc_sweep(points=61)
+    rows = [
+        f"{f!r} {g.real!r} {g.imag!r}"
+        for f, g in zip(s.freq_hz.tolist(), s.gamma.tolist(), strict=True)
+    ]
+    v2 = tmp_path / "v2.ts"
+    v2.write_text(
+        "[Version] 2.0\n# Hz S RI R 50\n[Number of Ports] 1\n"
+        f"[Number of Frequencies] {len(rows)}\n[Network Data]\n" + "\n".join(rows) + "\n[End]\n"
+    )
+    two = tmp_path / "two.s2p"
+    two.write_text(
+        "# Hz S RI R 50\n" + "\n".join(f"{r} 0.5 0.0 0.5 0.0 0.0 0.0" for r in rows) + "\n"
+    )
+    res = run(v2, two, "--json")
+    assert res.exit_code == 0, res.output
+    docs = json.loads(res.stdout)
+    assert [d["points"] for d in docs] == [61, 61]
+    for d in docs:
+        assert d["resonances"][0]["hz"] == pytest.approx(F0, rel=1e-5)
+
+
 @pytest.mark.parametrize(
     ("text", "hz"),
     [
