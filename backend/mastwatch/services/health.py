@@ -808,3 +808,14 @@ def judge(
         if isinstance(when0, datetime)
         else (when0.isoformat() if when0 else None),
     )
+
+
+def judge_sweep(session: Any, row: Any) -> None:
+    """The records service's post-ingest hook (services/ingest.py looks for this name).
+
+    Kept here so the hook is found where the verdict lives; the database work is in
+    services/health_records.py (imported lazily: this module stays pure).
+    """
+    from mastwatch.services.health_records import judge_sweep as judge_on_records
+
+    judge_on_records(session, row)

@@ -1,0 +1,445 @@
+"""Health on the records: baselines, the verdict stored with each sweep, antenna health.
+
+The judging itself is pure (services/health.py); this module fetches what it needs
+from the database and writes the outcome back:
+
+    judge_sweep(session, row)       ingest hook (inside the upload transaction):
+                                    verdict vs the current baseline → sweep.status,
+                                    sweep.status_reasons; verdict change → notification
+    set_baseline(session, ...)      PUT /antennas/{id}/baseline: history kept (ended_at),
+                                    the sweeps since the new baseline judged again
+    baseline_candidate(...)         first sweep after the latest repair/modification of
+                                    the antenna, else after its installation, else its
+                                    first sweep (the keeper confirms it)
+    antenna_health(...)             GET /antennas/{id}/health
+
+Which numbers: the metrics rows at the feedpoint plane when the sweep has them, else
+at the measured plane; the arrays at both planes for the whole-sweep signatures;
+the distance-to-fault views (C's ``rf.dtf``) of line-input sweeps; and the trend since
+the baseline for the change-point test (services/changepoint.py).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass, field
+from datetime import UTC, datetime, time
+from typing import Any
+
+from sqlalchemy import select
+from sqlalchemy.orm import Session, undefer
+
+from mastwatch.db.models import Antenna, Baseline, Event, SweepMetrics
+from mastwatch.db.models import Sweep as SweepRow
+from mastwatch.db.types import utcnow
+from mastwatch.rf.errors import AnalysisError
+from mastwatch.services import codec
+from mastwatch.services.changepoint import drift_reason
+from mastwatch.services.errors import Invalid, not_found
+from mastwatch.services.health import DtfTrace, SweepView, Verdict, format_hz, judge
+from mastwatch.services.thresholds import thresholds_for
+
+REJUDGE_LIMIT = 500  # sweeps judged again when a baseline changes (newest first)
+CANDIDATE_EVENTS = ("repair", "modification")
+
+
+@dataclass
+class Metrics:
+    """What health.judge reads of a sweep's metrics, built from the database rows."""
+
+    plane: str
+    bands: list[SweepMetrics]
+    resonances: list[dict[str, Any]] = field(default_factory=list)
+
+
+@dataclass(frozen=True)
+class DriftMetric:
+    field: str
+    label: str
+    floor: Callable[[SweepMetrics], float]  # measurement resolution of the metric
+    fmt: Callable[[float], str]
+
+
+DRIFT_METRICS: tuple[DriftMetric, ...] = (
+    DriftMetric("min_swr", "min SWR", lambda m: 0.02, lambda v: f"{abs(v):.2f}"),
+    DriftMetric("swr_center", "SWR at band centre", lambda m: 0.02, lambda v: f"{abs(v):.2f}"),
+    # 0.05 % of the band centre: about what an analyzer's frequency steps resolve.
+    DriftMetric("resonance_hz", "resonance", lambda m: 2.5e-4 * (m.low_hz + m.high_hz), format_hz),
+)
+
+
+# -- reading ------------------------------------------------------------------------------
+
+
+def sweep_metrics(session: Session, row: SweepRow) -> Metrics:
+    rows = list(session.scalars(select(SweepMetrics).where(SweepMetrics.sweep_id == row.id)))
+    has_feed = row.summary.get("feedpoint") is not None
+    plane = "feedpoint" if has_feed else "measured"
+    summary = row.summary.get(plane) or {}
+    return Metrics(
+        plane, [m for m in rows if m.plane == plane], list(summary.get("resonances") or [])
+    )
+
+
+def with_arrays(session: Session, sweep_id: int) -> SweepRow:
+    row = session.scalar(
+        select(SweepRow)
+        .where(SweepRow.id == sweep_id)
+        .options(
+            undefer(SweepRow.freq_hz), undefer(SweepRow.gamma), undefer(SweepRow.gamma_feedpoint)
+        )
+    )
+    if row is None:
+        raise not_found("sweep", sweep_id)
+    return row
+
+
+def sweep_view(session: Session, row: SweepRow, label: str | None = None) -> SweepView:
+    return SweepView(
+        metrics=sweep_metrics(session, row),
+        taken_at=row.measured_at,
+        measured=codec.measured_sweep(row),
+        plane="line_input" if row.reference_plane == "line_input" else "feedpoint",
+        feedpoint=codec.feedpoint_sweep(row),
+        label=label,
+    )
+
+
+def current_baseline(session: Session, antenna_id: int) -> Baseline | None:
+    return session.scalar(
+        select(Baseline)
+        .where(Baseline.antenna_id == antenna_id, Baseline.ended_at.is_(None))
+        .order_by(Baseline.set_at.desc(), Baseline.id.desc())
+        .limit(1)
+    )
+
+
+def baseline_history(session: Session, antenna_id: int) -> list[Baseline]:
+    return list(
+        session.scalars(
+            select(Baseline)
+            .where(Baseline.antenna_id == antenna_id)
+            .order_by(Baseline.set_at.desc(), Baseline.id.desc())
+        )
+    )
+
+
+def _dtf_pair(current: SweepRow, base: SweepRow) -> tuple[DtfTrace, DtfTrace] | None:
+    """Distance-to-fault views of two line-input sweeps, or None where they say nothing."""
+    snap = current.feedline_snapshot
+    if (
+        snap is None
+        or current.reference_plane != "line_input"
+        or base.reference_plane != "line_input"
+        or not (current.has_phase and base.has_phase)
+    ):
+        return None
+    from mastwatch.rf.dtf import distance_to_fault
+    from mastwatch.services.antennas import feedline_from_snapshot
+
+    cable = feedline_from_snapshot(snap).cable
+    try:
+        return (
+            DtfTrace.from_result(distance_to_fault(codec.measured_sweep(current), cable=cable)),
+            DtfTrace.from_result(distance_to_fault(codec.measured_sweep(base), cable=cable)),
+        )
+    except AnalysisError:
+        return None  # a single-band sweep: too coarse to place anything on the line
+
+
+def drift_reasons(
+    session: Session,
+    antenna: Antenna,
+    row: SweepRow,
+    base: SweepRow,
+    plane: str,
+    bands: Sequence[str] | None,
+) -> list[str]:
+    """Change-point reasons over the metric series since the baseline, up to ``row``."""
+    query = (
+        select(
+            SweepMetrics.sweep_id,
+            SweepMetrics.measured_at,
+            SweepMetrics.band,
+            SweepMetrics.low_hz,
+            SweepMetrics.high_hz,
+            SweepMetrics.min_swr,
+            SweepMetrics.swr_center,
+            SweepMetrics.resonance_hz,
+            SweepRow.status,
+        )
+        .join(SweepRow, SweepRow.id == SweepMetrics.sweep_id)
+        .where(
+            SweepMetrics.antenna_id == antenna.id,
+            SweepMetrics.plane == plane,
+            SweepMetrics.measured_at >= base.measured_at,
+            SweepMetrics.measured_at <= row.measured_at,
+        )
+        .order_by(SweepMetrics.measured_at, SweepMetrics.sweep_id)
+    )
+    series: dict[str, list[Any]] = {}
+    for r in session.execute(query):
+        if r.status == "unknown" and r.sweep_id != row.id:
+            continue  # a sweep too noisy to judge says nothing about a trend either
+        if bands is not None and r.band not in bands:
+            continue
+        series.setdefault(r.band, []).append(r)
+    out: list[str] = []
+    for band, points in series.items():
+        t = thresholds_for(antenna.thresholds, band)
+        for metric in DRIFT_METRICS:
+            values = [getattr(p, metric.field) for p in points]
+            if metric.field != "resonance_hz":
+                values = [None if v is None or not math.isfinite(v) else v for v in values]
+            text = drift_reason(
+                [p.measured_at for p in points],
+                values,
+                label=metric.label,
+                band=band,
+                unit_format=metric.fmt,
+                k=t.cusum_k,
+                h=t.cusum_h,
+                sigma_floor=metric.floor(points[0]),
+            )
+            if text:
+                out.append(text)
+    return out
+
+
+def verdict_for(
+    session: Session,
+    antenna: Antenna,
+    row: SweepRow,
+    base: SweepRow | None,
+    *,
+    label: str | None = None,
+    drift: bool = True,
+) -> Verdict:
+    """The verdict of sweep ``row`` against sweep ``base`` (both rows with their arrays)."""
+    bands = list(antenna.bands) if antenna.bands else None
+    current = sweep_view(session, row)
+    if base is None:
+        return judge(current, None, antenna.thresholds, bands=bands)
+    snap = row.feedline_snapshot or {}
+    reasons = (
+        drift_reasons(session, antenna, row, base, current.metrics.plane, bands) if drift else []
+    )
+    return judge(
+        current,
+        sweep_view(session, base, label),
+        antenna.thresholds,
+        bands=bands,
+        velocity_factor=snap.get("velocity_factor"),
+        line_length_m=snap.get("length_m"),
+        dtf=_dtf_pair(row, base),
+        drift_reasons=reasons,
+    )
+
+
+# -- the ingest hook ----------------------------------------------------------------------
+
+
+def _previous(session: Session, row: SweepRow) -> SweepRow | None:
+    return session.scalar(
+        select(SweepRow)
+        .where(
+            SweepRow.antenna_id == row.antenna_id,
+            SweepRow.id != row.id,
+            SweepRow.measured_at <= row.measured_at,
+        )
+        .order_by(SweepRow.measured_at.desc(), SweepRow.id.desc())
+        .limit(1)
+    )
+
+
+def _is_latest(session: Session, row: SweepRow) -> bool:
+    later = session.scalar(
+        select(SweepRow.id)
+        .where(
+            SweepRow.antenna_id == row.antenna_id,
+            SweepRow.id != row.id,
+            SweepRow.measured_at > row.measured_at,
+        )
+        .limit(1)
+    )
+    return later is None
+
+
+def store_verdict(
+    session: Session,
+    antenna: Antenna,
+    row: SweepRow,
+    verdict: Verdict,
+    old_status: str | None,
+    notify: bool,
+) -> None:
+    row.status, row.status_reasons = verdict.status, verdict.reasons
+    if notify and old_status is not None and old_status != verdict.status:
+        from mastwatch.services.notify import queue_verdict_change
+
+        queue_verdict_change(session, antenna, row, old_status, verdict.status, verdict.reasons)
+
+
+def judge_sweep(session: Session, row: SweepRow) -> None:
+    """Judge a new sweep against its antenna's baseline (runs inside the upload)."""
+    antenna = session.get(Antenna, row.antenna_id)
+    if antenna is None:
+        return
+    baseline = current_baseline(session, antenna.id)
+    base_row = with_arrays(session, baseline.sweep_id) if baseline else None
+    verdict = verdict_for(session, antenna, row, base_row)
+    prev = _previous(session, row)
+    store_verdict(
+        session,
+        antenna,
+        row,
+        verdict,
+        prev.status if prev else None,
+        notify=_is_latest(session, row),
+    )
+
+
+# -- baselines ----------------------------------------------------------------------------
+
+
+def baseline_candidate(session: Session, antenna: Antenna) -> dict[str, Any] | None:
+    """The sweep the keeper is offered as the baseline, and why that one."""
+    event = session.scalar(
+        select(Event)
+        .where(Event.antenna_id == antenna.id, Event.kind.in_(CANDIDATE_EVENTS))
+        .order_by(Event.occurred_at.desc(), Event.id.desc())
+        .limit(1)
+    )
+    query = select(SweepRow.id, SweepRow.measured_at).where(SweepRow.antenna_id == antenna.id)
+    if event is not None:
+        start: datetime | None = event.occurred_at
+        why = f"first sweep after the {event.kind} of {event.occurred_at.date().isoformat()}"
+    elif antenna.installed_on is not None:
+        start = datetime.combine(antenna.installed_on, time(), tzinfo=UTC)
+        why = f"first sweep after installation on {antenna.installed_on.isoformat()}"
+    else:
+        start, why = None, "first sweep of the antenna"
+    if start is not None:
+        query = query.where(SweepRow.measured_at >= start)
+    first = session.execute(query.order_by(SweepRow.measured_at, SweepRow.id).limit(1)).first()
+    if first is None:
+        return None
+    current = current_baseline(session, antenna.id)
+    return {
+        "sweep_id": first.id,
+        "measured_at": first.measured_at,
+        "why": why,
+        "is_current": current is not None and current.sweep_id == first.id,
+    }
+
+
+def set_baseline(session: Session, antenna_id: int, sweep_id: int, reason: str = "") -> Baseline:
+    """Make ``sweep_id`` the antenna's baseline (history kept) and judge again since it."""
+    antenna = session.get(Antenna, antenna_id)
+    if antenna is None:
+        raise not_found("antenna", antenna_id)
+    sweep = with_arrays(session, sweep_id)
+    if sweep.antenna_id != antenna.id:
+        raise Invalid(
+            f"sweep {sweep_id} belongs to antenna {sweep.antenna_id}, not to antenna {antenna.id}"
+        )
+    current = current_baseline(session, antenna.id)
+    if current is not None and current.sweep_id == sweep.id:
+        return current
+    now = utcnow()
+    if current is not None:
+        current.ended_at = now
+    new = Baseline(
+        antenna_id=antenna.id,
+        sweep_id=sweep.id,
+        set_at=now,
+        ended_at=None,
+        reason=reason,
+        confirmed=True,
+    )
+    session.add(new)
+    session.flush()
+    rejudge_since(session, antenna, sweep)
+    session.commit()
+    return new
+
+
+def rejudge_since(session: Session, antenna: Antenna, base: SweepRow) -> None:
+    """Judge every sweep measured since ``base`` again (newest REJUDGE_LIMIT)."""
+    ids = list(
+        session.scalars(
+            select(SweepRow.id)
+            .where(SweepRow.antenna_id == antenna.id, SweepRow.measured_at >= base.measured_at)
+            .order_by(SweepRow.measured_at.desc(), SweepRow.id.desc())
+            .limit(REJUDGE_LIMIT)
+        )
+    )
+    for i, sid in enumerate(reversed(ids)):
+        row = base if sid == base.id else with_arrays(session, sid)
+        old = row.status
+        verdict = verdict_for(session, antenna, row, base)
+        store_verdict(session, antenna, row, verdict, old, notify=i == len(ids) - 1)
+        session.flush()
+
+
+# -- antenna health -----------------------------------------------------------------------
+
+
+def _sweep_ref(row: SweepRow | None) -> dict[str, Any] | None:
+    if row is None:
+        return None
+    return {
+        "sweep_id": row.id,
+        "measured_at": row.measured_at,
+        "reference_plane": row.reference_plane,
+    }
+
+
+def latest_sweep(session: Session, antenna_id: int) -> SweepRow | None:
+    row_id = session.scalar(
+        select(SweepRow.id)
+        .where(SweepRow.antenna_id == antenna_id)
+        .order_by(SweepRow.measured_at.desc(), SweepRow.id.desc())
+        .limit(1)
+    )
+    return with_arrays(session, row_id) if row_id is not None else None
+
+
+def antenna_health(session: Session, antenna_id: int) -> dict[str, Any]:
+    """Verdict of the latest sweep (judged now), baseline, candidate and status history."""
+    antenna = session.get(Antenna, antenna_id)
+    if antenna is None:
+        raise not_found("antenna", antenna_id)
+    latest = latest_sweep(session, antenna.id)
+    baseline = current_baseline(session, antenna.id)
+    base_row = with_arrays(session, baseline.sweep_id) if baseline else None
+    verdict = verdict_for(session, antenna, latest, base_row) if latest is not None else None
+    history = [
+        {"sweep_id": sid, "measured_at": at, "status": status}
+        for sid, at, status in session.execute(
+            select(SweepRow.id, SweepRow.measured_at, SweepRow.status)
+            .where(SweepRow.antenna_id == antenna.id)
+            .order_by(SweepRow.measured_at, SweepRow.id)
+        )
+    ]
+    return {
+        "antenna_id": antenna.id,
+        "status": verdict.status if verdict else "unknown",
+        "reasons": verdict.reasons if verdict else ["no sweep yet"],
+        "verdict": verdict.to_dict() if verdict else None,
+        "sweep": _sweep_ref(latest),
+        "baseline": None
+        if baseline is None
+        else {
+            **(_sweep_ref(base_row) or {}),
+            "set_at": baseline.set_at,
+            "reason": baseline.reason,
+        },
+        "candidate": baseline_candidate(session, antenna),
+        "baselines": [
+            {"sweep_id": b.sweep_id, "set_at": b.set_at, "ended_at": b.ended_at, "reason": b.reason}
+            for b in baseline_history(session, antenna.id)
+        ],
+        "history": history,
+    }
