@@ -264,7 +264,7 @@ def test_csv_non_monotonic() -> None:
 def test_csv_nan() -> None:
     e = failure(CSV_HEAD + "7.0,0.1,0.1\n7.1,nan,0.1\n", "a.csv")
     assert e.line == 4
-    assert "not a finite number" in e.message
+    assert "column 'Re' is nan: not a finite number" in e.message
 
 
 def test_csv_not_passive() -> None:

@@ -81,3 +81,17 @@ def test_pure_core_imports() -> None:
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
                          check=False)
     assert out.returncode == 0, out.stdout + out.stderr
+
+
+def test_file_formats_doc_names_every_role_and_limit() -> None:
+    # STYLE.md (datasette habit): a test fails when a setting or option is undocumented.
+    from pathlib import Path
+
+    from mastwatch.rf.csvfile import ROLES
+
+    doc = (Path(__file__).parents[2] / "docs" / "file-formats.md").read_text()
+    for role in ROLES:
+        assert f"`{role}" in doc, role
+    assert f"{MAX_POINTS:,}" in doc
+    assert f"{MAX_FILE_BYTES:,}" in doc
+    assert "1.05" in doc

@@ -333,7 +333,7 @@ def read_csv(text: str, *, columns: str | None = None, filename: str | None = No
     line_of: LineOf = rows.line_of
     values = rows.values
     check_point_count(values.shape[0], line_of)
-    check_finite(values, line_of)
+    check_finite(values, line_of, [names[c] for c in used])
 
     f_raw = values[:, 0]
     unit = units.get(fcol)

@@ -60,13 +60,15 @@ def check_point_count(n: int, line_of: LineOf) -> None:
         )
 
 
-def check_finite(values: np.ndarray, line_of: LineOf) -> None:
+def check_finite(values: np.ndarray, line_of: LineOf,
+                 columns: list[str] | None = None) -> None:
     """Refuse NaN and infinity anywhere in a (rows × columns) block of numbers."""
     ok = np.isfinite(values)
     if not ok.all():
         row, col = (int(i[0]) for i in np.nonzero(~ok))
+        what = f"column '{columns[col]}'" if columns else f"value {col + 1}"
         raise SweepFormatError(
-            f"value {col + 1} is {float(values[row, col])!r}: not a finite number "
+            f"{what} is {float(values[row, col])!r}: not a finite number "
             "(NaN, infinity or beyond the float range)",
             line_of(row),
         )
