@@ -25,7 +25,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Literal
+from typing import Any, Literal
 
 import numpy as np
 
@@ -281,7 +281,7 @@ def load_hint(z_load: complex, f_hz: float) -> str:
     )
 
 
-def match_summary(sweep: Sweep, at_hz: float, z0: float = 50.0) -> dict[str, object]:
+def match_summary(sweep: Sweep, at_hz: float, z0: float = 50.0) -> dict[str, Any]:
     """JSON-safe: the networks for the sweep's impedance at ``at_hz`` (Γ interpolated as
     ``metrics.value_at`` does) and each one's SWR≤2 bandwidth over the whole sweep."""
     if not sweep.has_phase:
