@@ -349,3 +349,9 @@ def test_two_port_five_numbers_above_last_frequency_is_not_noise() -> None:
                 "3 1.5 0.3 45 0.2\n", "cable.s2p")
     assert e.line == 4
     assert "expected 9 numbers" in e.message and "found 5" in e.message
+
+
+def test_option_line_after_the_data() -> None:
+    e = failure("! x\n7.0 0.1 0.1\n# MHz S RI R 50\n7.1 0.1 0.1\n")
+    assert e.line == 3
+    assert "must come before the data" in e.message

@@ -284,7 +284,7 @@ class _Scan:
 
 
 def _scan_rows(lines: list[str], start: int, width: int, *, ports: int, version: int,
-               max_rows: int) -> _Scan:
+               max_rows: int, had_options: bool = True) -> _Scan:
     """Line-by-line reading with exact error lines (the slow, careful path).
 
     Version 1: one frequency per line; in a two-port, a line of 5 numbers whose frequency
@@ -301,6 +301,9 @@ def _scan_rows(lines: list[str], start: int, width: int, *, ports: int, version:
         if not content:
             continue
         if content.startswith("#"):
+            if not had_options:
+                # Defaults (GHz, MA) would silently apply to the rows above it.
+                raise SweepFormatError("the option line (#) must come before the data", n)
             continue  # only the first option line counts (TS 2.0, Option Line)
         if content.startswith("["):
             name = content[1:].partition("]")[0].strip().lower()
@@ -589,7 +592,7 @@ def read_touchstone(text: str, *, ports: int | None = None, filename: str | None
         block = _Block(values, None, lines, start)
     else:
         scan = _scan_rows(lines, start, width, ports=nports, version=h.version,
-                          max_rows=MAX_POINTS)
+                          max_rows=MAX_POINTS, had_options=h.opts is not None)
         arr = np.array(scan.rows, dtype=np.float64).reshape(-1, width)
         block = _Block(arr, scan.line_numbers, lines, start)
         values = arr
