@@ -135,6 +135,8 @@ def test_gamma_matches_skrf_and_spec(case: tuple[int, int, str, str, str], tmp_p
     np.testing.assert_allclose(ours.gamma, net.s[:, 0, 0], rtol=1e-12, atol=0)
     assert ours.z0 == pytest.approx(net.z0[0, 0].real, rel=1e-15)
     if ports == 2:
+        # (skrf's z of a two-port is the open-circuit Z11, not the input impedance with
+        # port 2 matched that our S11 sweep gives, so Z/SWR/RL are compared for one-ports)
         np.testing.assert_allclose(ours.s21, net.s[:, 1, 0], rtol=1e-12, atol=0)
     else:
         np.testing.assert_allclose(ours.z, net.z[:, 0, 0], rtol=1e-12, atol=0)

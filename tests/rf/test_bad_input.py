@@ -355,3 +355,9 @@ def test_option_line_after_the_data() -> None:
     e = failure("! x\n7.0 0.1 0.1\n# MHz S RI R 50\n7.1 0.1 0.1\n")
     assert e.line == 3
     assert "must come before the data" in e.message
+
+
+def test_csv_empty_field() -> None:
+    e = failure(CSV_HEAD + "7.0,0.1,0.1\n7.1,,0.1\n", "a.csv")
+    assert e.line == 4
+    assert "column 'Re' is empty: not a number" in e.message

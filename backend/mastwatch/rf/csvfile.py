@@ -255,8 +255,9 @@ def _read_rows(lines: list[str], first: int, delim: str | None, ncols: int,
             if decimal_comma and "," in text:
                 text = text.replace(",", ".")
             if not NUMBER.fullmatch(text):
-                raise SweepFormatError(
-                    f"'{fields[c]}' in column '{names[c]}' is not a number", k + 1)
+                what = f"'{fields[c]}' in column '{names[c]}' is" if text else \
+                    f"column '{names[c]}' is empty:"
+                raise SweepFormatError(f"{what} not a number", k + 1)
             row.append(float(text))
         rows.append(row)
         line_numbers.append(k + 1)
