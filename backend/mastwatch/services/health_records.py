@@ -275,7 +275,10 @@ def store_verdict(
     notify: bool,
 ) -> None:
     row.status, row.status_reasons = verdict.status, verdict.reasons
-    if notify and old_status is not None and old_status != verdict.status:
+    # Members care when an antenna goes bad or recovers: a change that involves watch or
+    # fault (unknown ↔ ok, e.g. the first baseline or a noisy sweep, is not news).
+    involved = {old_status, verdict.status} & {"watch", "fault"}
+    if notify and old_status is not None and old_status != verdict.status and involved:
         from mastwatch.services.notify import queue_verdict_change
 
         queue_verdict_change(session, antenna, row, old_status, verdict.status, verdict.reasons)

@@ -1,0 +1,225 @@
+"""Notifications on a verdict change: queued with the upload, delivered after it.
+
+A local HTTP receiver (http.server on 127.0.0.1, in a thread) and a local SMTP server
+(aiosmtpd's Controller on 127.0.0.1) stand in for the club's endpoints. The signature
+is checked against Python's own ``hmac`` (RFC 2104 HMAC with SHA-256).
+"""
+
+from __future__ import annotations
+
+import hashlib
+import hmac
+import json
+import socket
+import threading
+from collections.abc import Iterator
+from datetime import timedelta
+from email import message_from_bytes, policy
+from http.server import BaseHTTPRequestHandler, HTTPServer
+from typing import Any
+
+import httpx
+import pytest
+from fastapi import FastAPI
+from sqlalchemy import select
+
+from mastwatch.db.models import Notification
+from mastwatch.db.models import Sweep as SweepRow
+from mastwatch.db.types import utcnow
+from mastwatch.services.notify import SIGNATURE_HEADER, deliver_pending, sign, verify
+from mastwatch.settings import Settings
+from tests.api.helpers import API, make_antenna, make_site, upload
+from tests.dbfixtures import rlc_touchstone
+
+SECRET = "q0hrs-test-secret"
+
+
+class Receiver:
+    """Answers 500 to the first ``fail`` requests, then 204; records what it got."""
+
+    def __init__(self, fail: int) -> None:
+        self.fail = fail
+        self.requests: list[tuple[bytes, dict[str, str]]] = []
+        outer = self
+
+        class Handler(BaseHTTPRequestHandler):
+            def do_POST(self) -> None:
+                body = self.rfile.read(int(self.headers["Content-Length"]))
+                outer.requests.append((body, dict(self.headers)))
+                code = 500 if len(outer.requests) <= outer.fail else 204
+                self.send_response(code)
+                self.send_header("Content-Length", "0")
+                self.end_headers()
+
+            def log_message(self, *args: Any) -> None:
+                pass
+
+        self.server = HTTPServer(("127.0.0.1", 0), Handler)
+        self.url = f"http://127.0.0.1:{self.server.server_port}/hook"
+        self.thread = threading.Thread(target=self.server.serve_forever, daemon=True)
+
+    def __enter__(self) -> Receiver:
+        self.thread.start()
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        self.server.shutdown()
+        self.server.server_close()
+
+    @property
+    def delivered(self) -> list[bytes]:
+        return [b for i, (b, _) in enumerate(self.requests) if i >= self.fail]
+
+
+@pytest.fixture
+def receiver() -> Iterator[Receiver]:
+    with Receiver(fail=2) as r:
+        yield r
+
+
+def _settings(base: Settings, **kw: Any) -> Settings:
+    return Settings(database_url=base.database_url, data_dir=base.data_dir, **kw)
+
+
+async def _verdict_change(client: httpx.AsyncClient) -> int:
+    """Baseline, then a sweep that turns the antenna from ok to watch. Returns its id."""
+    site = await make_site(client)
+    ant = await make_antenna(client, site["id"])
+    r = await upload(client, ant["id"], rlc_touchstone(7.1e6), measured_at="2025-04-02T10:00")
+    first = r.json()["id"]
+    await client.put(f"{API}/antennas/{ant['id']}/baseline", json={"sweep_id": first})
+    r = await upload(client, ant["id"], rlc_touchstone(6.92e6), measured_at="2025-11-03T09:00")
+    assert r.status_code == 201, r.text
+    return int(r.json()["id"])
+
+
+def _rows(app: FastAPI) -> list[Notification]:
+    with app.state.sessionmaker() as s:
+        return list(s.scalars(select(Notification).order_by(Notification.id)))
+
+
+def test_signature_is_rfc2104_hmac_sha256() -> None:
+    body = b'{"a":1}'
+    expected = hmac.new(SECRET.encode(), body, hashlib.sha256).hexdigest()
+    assert sign(body, SECRET) == f"sha256={expected}"
+    assert verify(body, SECRET, f"sha256={expected}")
+    assert not verify(body + b" ", SECRET, f"sha256={expected}")
+
+
+@pytest.mark.anyio
+async def test_webhook_fails_twice_then_delivered_exactly_once(
+    client: httpx.AsyncClient, app: FastAPI, settings: Settings, receiver: Receiver
+) -> None:
+    sweep_id = await _verdict_change(client)
+    rows = _rows(app)
+    # Queued inside the upload: one row per channel, for the ok → watch change only.
+    assert [(r.channel, r.state) for r in rows] == [("webhook", "pending"), ("email", "pending")]
+    assert rows[0].payload["old_status"] == "ok" and rows[0].payload["new_status"] == "watch"
+
+    cfg = _settings(settings, webhook_url=receiver.url, webhook_secret=SECRET)
+    waits: list[float] = []
+    with app.state.sessionmaker() as s:
+        report = deliver_pending(s, cfg, backoff_s=0.5, sleep=waits.append)
+    assert report.sent == [rows[0].id] and report.skipped == [rows[1].id]
+    assert waits == [0.5, 1.0]  # exponential backoff between the three attempts
+    assert len(receiver.requests) == 3 and len(receiver.delivered) == 1
+    body, headers = receiver.requests[-1]
+    assert verify(body, SECRET, headers[SIGNATURE_HEADER])
+    payload = json.loads(body)
+    assert payload["sweep"]["id"] == sweep_id
+    assert payload["reasons"][0].startswith("40m: resonance moved 180 kHz down")
+
+    # A second run sends nothing again: delivered once.
+    with app.state.sessionmaker() as s:
+        again = deliver_pending(s, cfg, now=utcnow() + timedelta(days=1), sleep=waits.append)
+    assert again.sent == [] and len(receiver.requests) == 3
+    states = [(r.channel, r.state, r.attempts) for r in _rows(app)]
+    assert states == [("webhook", "sent", 1), ("email", "skipped", 0)]
+    # The upload is unaffected.
+    r = await client.get(f"{API}/sweeps/{sweep_id}")
+    assert r.status_code == 200 and r.json()["status"] == "watch"
+
+
+@pytest.mark.anyio
+async def test_a_dead_receiver_is_retried_later_and_never_loses_the_upload(
+    client: httpx.AsyncClient, app: FastAPI, settings: Settings
+) -> None:
+    with Receiver(fail=10_000) as dead:
+        sweep_id = await _verdict_change(client)
+        cfg = _settings(settings, webhook_url=dead.url, webhook_secret=SECRET)
+        t0 = utcnow()
+        with app.state.sessionmaker() as s:
+            report = deliver_pending(
+                s, cfg, now=t0, attempts=2, retry_after_s=60, sleep=lambda _: None
+            )
+        (hook,) = [r for r in _rows(app) if r.channel == "webhook"]
+        assert report.retry == [hook.id]
+        assert hook.state == "pending" and hook.attempts == 1
+        assert "HTTP 500 after 2 attempts" in (hook.last_error or "")
+        assert hook.next_attempt_at >= t0 + timedelta(seconds=59)
+        # Not due yet: nothing is sent; due: tried again (backoff doubles).
+        with app.state.sessionmaker() as s:
+            assert deliver_pending(s, cfg, now=t0, sleep=lambda _: None).retry == []
+            later = deliver_pending(
+                s, cfg, now=t0 + timedelta(seconds=61), attempts=1, sleep=lambda _: None
+            )
+        assert later.retry == [hook.id]
+        (hook,) = [r for r in _rows(app) if r.channel == "webhook"]
+        assert hook.attempts == 2
+        assert hook.next_attempt_at >= t0 + timedelta(seconds=61 + 119)
+    with app.state.sessionmaker() as s:
+        assert s.get(SweepRow, sweep_id) is not None
+
+
+def _free_port() -> int:
+    with socket.socket() as sock:
+        sock.bind(("127.0.0.1", 0))
+        return int(sock.getsockname()[1])
+
+
+@pytest.mark.anyio
+async def test_email_through_a_local_smtp_server(
+    client: httpx.AsyncClient, app: FastAPI, settings: Settings
+) -> None:
+    from aiosmtpd.controller import Controller
+
+    received: list[bytes] = []
+
+    class Handler:
+        async def handle_DATA(self, server: Any, session: Any, envelope: Any) -> str:
+            received.append(envelope.content)
+            return "250 OK"
+
+    port = _free_port()
+    controller = Controller(Handler(), hostname="127.0.0.1", port=port)
+    controller.start()
+    try:
+        await _verdict_change(client)
+        cfg = _settings(
+            settings,
+            smtp_host="127.0.0.1",
+            smtp_port=port,
+            smtp_from="mastwatch@q0hrs.invalid",
+            smtp_to=["keeper@q0hrs.invalid"],
+        )
+        with app.state.sessionmaker() as s:
+            report = deliver_pending(s, cfg)
+    finally:
+        controller.stop()
+    assert len(report.sent) == 1 and len(report.skipped) == 1  # e-mail sent, webhook off
+    (raw,) = received
+    msg = message_from_bytes(raw, policy=policy.default)
+    assert msg["To"] == "keeper@q0hrs.invalid"
+    assert msg["Subject"].endswith("40m dipole: ok → watch")
+    assert "resonance moved 180 kHz down" in msg.get_content()  # type: ignore[attr-defined]
+
+
+@pytest.mark.anyio
+async def test_no_change_no_notification(client: httpx.AsyncClient, app: FastAPI) -> None:
+    site = await make_site(client)
+    ant = await make_antenna(client, site["id"])
+    r = await upload(client, ant["id"], rlc_touchstone(7.1e6), measured_at="2025-04-02T10:00")
+    await client.put(f"{API}/antennas/{ant['id']}/baseline", json={"sweep_id": r.json()["id"]})
+    await upload(client, ant["id"], rlc_touchstone(7.101e6), measured_at="2025-06-02T10:00")
+    # unknown → ok when the baseline was set, then ok → ok: neither is news.
+    assert _rows(app) == []
