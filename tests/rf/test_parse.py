@@ -48,6 +48,8 @@ def test_extension_decides_and_is_case_blind() -> None:
         ("7 0.1 0.1\n", "touchstone"),
         ("Frequency (MHz),SWR\n7,1.5\n", "csv"),
         ("# export, club\nFreq;SWR\n", "csv"),
+        ("# exported by the club laptop\nFreq (MHz)\tSWR\n7\t1.5\n", "csv"),
+        ("#\n7 0.1 0.1\n", "touchstone"),
         ("Freq\tSWR\n7\t1.5\n", "csv"),
     ],
 )

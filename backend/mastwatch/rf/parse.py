@@ -26,6 +26,7 @@ from mastwatch.rf.touchstone import NUMBER, read_touchstone
 TOUCHSTONE_EXTENSIONS = {".s1p": 1, ".s2p": 2, ".ts": None}
 CSV_EXTENSIONS = {".csv"}
 
+_OPTION_WORDS = {"hz", "khz", "mhz", "ghz", "s", "y", "z", "h", "g", "ri", "ma", "db", "r"}
 _SNP = re.compile(r"\.s(\d+)p", re.IGNORECASE)
 # An ISO 8601 date and time (seconds and zone optional), e.g. 2025-03-14T09:30:00Z.
 _ISO_DATETIME = re.compile(
@@ -77,9 +78,10 @@ def measured_at_from(comments: tuple[str, ...]) -> datetime | None:
 def sniff_kind(text: str) -> str:
     """'touchstone' or 'csv' from the content of a file whose name does not say.
 
-    Touchstone: the first line that is not blank or a ``!`` comment is an option line
-    (``#``), a keyword (``[Version]``) or whitespace-separated numbers. Anything else
-    (a header row, commas, semicolons) is read as CSV.
+    Touchstone: the first line that is not blank or a comment is a ``!`` comment, an
+    option line (``# MHz S RI R 50``), a keyword (``[Version]``) or whitespace-separated
+    numbers. ``#`` lines that are not option lines are skipped as CSV comments. Anything
+    else (a header row, commas, semicolons) is read as CSV.
     """
     for raw in text.split("\n", 200)[:200]:
         s = raw.strip()
@@ -87,8 +89,13 @@ def sniff_kind(text: str) -> str:
             continue
         if s.startswith("!"):
             return "touchstone"
-        if s[0] in "#[":
-            return "csv" if s.startswith("#") and "," in s.partition("!")[0] else "touchstone"
+        if s[0] == "[":
+            return "touchstone"
+        if s[0] == "#":
+            words = s[1:].partition("!")[0].lower().split()
+            if all(w in _OPTION_WORDS or NUMBER.fullmatch(w) for w in words):
+                return "touchstone"
+            continue  # a CSV comment line such as "# exported 2025-03-14"
         tokens = s.split()
         if all(NUMBER.fullmatch(t) for t in tokens):
             return "touchstone"
