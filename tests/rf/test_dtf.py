@@ -8,6 +8,8 @@ import warnings
 import numpy as np
 import pytest
 import skrf
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from mastwatch.rf.dtf import distance_to_fault
 from mastwatch.rf.errors import AnalysisError
@@ -171,3 +173,15 @@ def test_decimation_keeps_every_peak() -> None:
     assert len(r.to_dict(arrays=True, max_points=300)["distance_m"]) == d.size
     with pytest.raises(ValueError, match="at least 2"):
         r.decimated(1)
+
+
+@settings(max_examples=60, deadline=None)
+@given(frac=st.floats(0.0, 0.98), rho=st.floats(0.05, 1.0), vf=st.floats(0.6, 0.95))
+def test_any_single_reflection_is_placed_and_scaled(frac: float, rho: float, vf: float) -> None:
+    f = F401
+    d0 = frac * vf * C0 * 400 / (2 * 400e6)  # a fraction of the unambiguous range
+    sweep = Sweep(f, rho * np.exp(-2j * 2 * np.pi * f / (vf * C0) * d0))
+    r = distance_to_fault(sweep, vf)
+    assert len(r.peaks) == 1
+    assert abs(r.peaks[0].distance_m - d0) < 0.1 * r.resolution_m
+    assert r.peaks[0].reflection == pytest.approx(rho, rel=5e-3)

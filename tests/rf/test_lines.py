@@ -7,11 +7,14 @@ import warnings
 import numpy as np
 import pytest
 import skrf
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from mastwatch.rf.errors import AnalysisError
 from mastwatch.rf.lines import (
     CABLES,
     Feedline,
+    additional_loss_db,
     arrl_total_loss_db,
     deembed,
     embed,
@@ -201,3 +204,23 @@ def test_parse_feedline_and_length() -> None:
     with pytest.raises(ValueError, match="connector count 'two'"):
         parse_feedline("RG-58:3m:two")
     assert get_cable("Window 450").name == "window-450"
+
+
+@settings(max_examples=150, deadline=None)
+@given(
+    r=st.floats(0.1, 5000.0),
+    x=st.floats(-5000.0, 5000.0),
+    length=st.floats(0.0, 300.0),
+    name=st.sampled_from(sorted(CABLES)),
+)
+def test_loss_properties(r: float, x: float, length: float, name: str) -> None:
+    # a passive load on a lossy line: total loss ≥ matched loss (additional loss ≥ 0),
+    # and the radio sees a better SWR than the load (ARRL "Additional Loss Due to SWR")
+    f = np.array([1.8e6, 14.2e6, 146e6])
+    fl = Feedline(CABLES[name], length)
+    feed = Sweep.from_impedance(f, np.full(3, complex(r, x)), 50.0)
+    extra = additional_loss_db(fl, feed)
+    assert np.all(extra >= -1e-9)
+    line_swr = Sweep(f, rereference(feed.gamma, 50.0, fl.cable.z0_ohm)).swr
+    radio = Sweep(f, rereference(embed(feed, fl).gamma, 50.0, fl.cable.z0_ohm)).swr
+    assert np.all(radio <= line_swr * (1 + 1e-9))
