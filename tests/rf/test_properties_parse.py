@@ -20,6 +20,7 @@ from mastwatch.rf.touchstone import write_touchstone
 
 SETTINGS = settings(max_examples=200, deadline=None,
                     suppress_health_check=[HealthCheck.too_slow])
+LIGHT = settings(SETTINGS, max_examples=100)  # the CSV extras: keep the suite quick
 NAMES = st.sampled_from(["a.s1p", "a.s2p", "a.ts", "a.csv", "a.txt", "a.dat", None])
 
 # |re|, |im| ≤ 0.74 keeps |Γ| ≤ 1.047 < MAX_PASSIVE_GAMMA; subnormals and −0.0 included.
@@ -105,3 +106,32 @@ def test_one_damaged_line(sweep: Sweep, k: int, junk: str) -> None:
     lines = write_touchstone(sweep).split("\n")
     lines[k % len(lines)] = junk
     _only_format_errors("\n".join(lines).encode(), "damaged.s1p")
+
+
+@LIGHT
+@given(sweep=sweeps(), delim=st.sampled_from([",", ";", "\t"]))
+def test_csv_of_re_im_reads_back_exactly(sweep: Sweep, delim: str) -> None:
+    rows = [delim.join(["Frequency (Hz)", "Re", "Im"])]
+    rows += [delim.join(repr(v) for v in (f, g.real, g.imag))
+             for f, g in zip(sweep.freq_hz.tolist(), sweep.gamma.tolist(), strict=True)]
+    back = read_sweep(("\n".join(rows) + "\n").encode(), "sweep.csv")
+    assert back.freq_hz.tobytes() == sweep.freq_hz.tobytes()
+    assert back.gamma.tobytes() == sweep.gamma.tobytes()
+
+
+SPEC_ITEMS = st.sampled_from(["freq", "freq:MHz", "freq:hz", "freq:THz", "re", "im", "db",
+                              "rl", "mag", "deg", "rad", "r", "x", "swr", "skip", "z0=75",
+                              "z0=-1", "z0=x", "", " ", "bogus", ":", "freq:"])
+
+
+@LIGHT
+@given(lines=st.lists(LINE, max_size=8),
+       spec=st.lists(SPEC_ITEMS, max_size=5).map(",".join),
+       name=st.sampled_from(["a.csv", "a.txt", None]))
+def test_near_miss_csv_with_column_specs(lines: list[str], spec: str, name: str | None) -> None:
+    try:
+        sweep = read_sweep("\n".join(lines).encode(), name, columns=spec)
+    except SweepFormatError as e:
+        assert e.line is None or 1 <= e.line <= len(lines) + 1
+    else:
+        assert sweep.source.format == "csv"
