@@ -133,7 +133,7 @@ export const setBaseline = (antennaId, sweepId) =>
   send("PUT", `/antennas/${antennaId}/baseline`, { sweep_id: sweepId });
 export const siteCheck = (siteId, since) => get(`/sites/${siteId}/check`, { since });
 export const dtf = (sweepId, query = {}) => get(`/sweeps/${sweepId}/dtf`, query);
-export const match = (sweepId, hz, plane) => get(`/sweeps/${sweepId}/match`, { f_hz: hz, plane });
+export const match = (sweepId, hz, plane) => get(`/sweeps/${sweepId}/match`, { at_hz: hz, plane });
 
 // -- files -----------------------------------------------------------------------------
 export async function analyze(file, extra = {}) {

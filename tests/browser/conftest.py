@@ -163,6 +163,7 @@ def _items(body: Any) -> list[dict[str, Any]]:
 class PageLog:
     errors: list[str] = field(default_factory=list)
     dialogs: list[str] = field(default_factory=list)
+    failed: list[str] = field(default_factory=list)  # "status URL" of every 4xx/5xx answer
 
 
 @pytest.fixture
@@ -177,7 +178,13 @@ def page_log(page: Any) -> PageLog:
         log.dialogs.append(dialog.message)
         dialog.dismiss()
 
+    def on_response(response: Any) -> None:
+        if response.status >= 400:
+            log.failed.append(f"{response.status} {response.url}")
+            log.errors.append(f"HTTP {response.status} {response.url}")
+
     page.on("console", on_console)
+    page.on("response", on_response)
     page.on("pageerror", lambda exc: log.errors.append(str(exc)))
     page.on("dialog", on_dialog)
     return log

@@ -89,6 +89,15 @@ export async function render(root, [idText], query, isStale) {
       h("a", { href: `#/check/${ant.site_id}` }, "Site check"),
       h("a", { href: `#/manage/antennas?edit=${antennaId}` }, "Edit")));
   const baselineSweep = list.find((s) => s.id === baselineId);
+  function baselineFact() {
+    const b = health?.baseline;
+    if (baselineSweep) return h("span", {}, label(baselineSweep), b?.reason ? ` — ${b.reason}` : "");
+    const c = health?.candidate;
+    if (!c) return "none set yet";
+    return h("span", {}, `none confirmed; candidate ${fmt.date(c.measured_at)} #${c.sweep_id}`, c.why ? ` (${c.why}) ` : " ",
+      canBaseline ? h("button", { type: "button", class: "small", dataset: { confirmBaseline: c.sweep_id },
+        onclick: () => setBaseline(c.sweep_id) }, "Confirm as baseline") : null);
+  }
   const fact = (term, value) => h("div", {}, h("dt", {}, term), h("dd", {}, value));
   const facts = h("dl", { class: "facts panel" },
     fact("Site", site.name),
@@ -96,7 +105,7 @@ export async function render(root, [idText], query, isStale) {
     fact("Bands", (ant.bands ?? []).join(", ") || "—"),
     fact("Installed", ant.installed_on ?? "—"),
     fact("Feedline", feedlineText(ant.feedline)),
-    fact("Baseline", baselineSweep ? label(baselineSweep) : "none set yet"),
+    fact("Baseline", baselineFact()),
     fact("Sweeps on record", String(list.length)),
     ant.notes ? fact("Notes", ant.notes) : null);
 
@@ -203,29 +212,39 @@ export async function render(root, [idText], query, isStale) {
   metricSel.addEventListener("change", () => drawTrendNow().catch(showError));
 
   // -- distance to fault ---------------------------------------------------------------
+  // The transform needs a wide sweep to place a fault (resolution ≈ VF·c/(2·span)): it is
+  // drawn at once for sweeps of DTF_AUTO_SPAN_HZ or more, and on request for narrower
+  // ones (the server then says why it cannot, if it cannot).
+  const DTF_AUTO_SPAN_HZ = 10e6;
   let dtfNow = null, dtfBase = null;
   const dtfBox = plotBox("Distance to fault", "small", `antenna-${antennaId}-dtf.csv`, () => (dtfNow ? dtfCsv(dtfNow, dtfBase) : ""));
-  const dtfNote = h("p", { class: "muted small" });
+  dtfBox.box.classList.add("hidden");
+  const dtfNote = h("div", { class: "muted small", "aria-live": "polite" });
   async function drawDtfNow() {
-    if (!latest) { dtfNote.textContent = "No sweep yet."; return; }
-    if (!(await api.has("dtf"))) {
-      dtfBox.box.classList.add("hidden");
-      dtfNote.textContent = "Distance to fault is not available on this server yet.";
-      return;
-    }
     try {
       const cur = await api.dtf(latest.id);
-      const base = baselineId && baselineId !== latest.id ? await api.dtf(baselineId).catch(() => null) : null;
+      const wide = (s) => s && s.f_stop_hz - s.f_start_hz >= DTF_AUTO_SPAN_HZ;
+      const base = baselineId && baselineId !== latest.id && wide(baselineSweep)
+        ? await api.dtf(baselineId).catch(() => null) : null;
       dtfNow = dtfArrays(cur);
       dtfBase = base ? dtfArrays(base) : null;
+      dtfBox.box.classList.remove("hidden");
       await drawDtf(dtfBox.plot, dtfNow, dtfBase, { filename: `antenna-${antennaId}-dtf` });
-      dtfNote.textContent = `Latest sweep${dtfBase ? " against the baseline's" : ""}. Distances assume the feedline's velocity factor.`;
+      fill(dtfNote, `Latest sweep${dtfBase ? " against the baseline's" : ""}; resolution about ${fmt.num(dtfNow.resolution, 2, "m")}. `,
+        dtfNow.peaks.length ? `Reflections at ${dtfNow.peaks.map((p) => fmt.num(p.distance_m, 1, "m")).join(", ")}. ` : "No reflection above the threshold. ",
+        ...dtfNow.notes.map((n) => h("span", {}, `${n} `)));
     } catch (err) {
       dtfBox.box.classList.add("hidden");
-      dtfNote.textContent = err.status === 404 || err.status === 405
-        ? "Distance to fault is not available on this server yet."
-        : `Distance to fault could not be computed: ${err.message}`;
+      fill(dtfNote, `Distance to fault cannot be computed for this sweep: ${err.message}`);
     }
+  }
+  async function setupDtf() {
+    if (!latest) { dtfNote.textContent = "No sweep yet."; return; }
+    if (!(await api.has("dtf"))) { dtfNote.textContent = "Distance to fault is not available on this server yet."; return; }
+    const span = latest.f_stop_hz - latest.f_start_hz;
+    if (span >= DTF_AUTO_SPAN_HZ) { await drawDtfNow(); return; }
+    fill(dtfNote, `The latest sweep spans ${fmt.khz(span)}; placing a fault along the line needs a wide sweep (about 10 MHz or more on typical coax). `,
+      h("button", { type: "button", class: "small", onclick: () => drawDtfNow() }, "Try anyway"));
   }
 
   fill(root,
@@ -245,10 +264,10 @@ export async function render(root, [idText], query, isStale) {
     h("h2", {}, "Events"),
     h("div", { class: "panel" }, eventsList(events)),
     h("h2", {}, "Distance to fault"),
-    h("div", { class: "plots" }, h("div", {}, dtfBox.box, dtfNote,
+    h("div", { class: "plots" }, h("div", { id: "dtf" }, dtfBox.box, dtfNote,
       cautions("A reflection along the line is a reason to inspect, carefully"))),
   );
   if (list.length) await draw();
   else smith.plot.append(h("p", { class: "muted" }, "Nothing to plot yet."));
-  await Promise.all([drawTrendNow().catch(showError), drawDtfNow()]);
+  await Promise.all([drawTrendNow().catch(showError), setupDtf()]);
 }

@@ -6,31 +6,12 @@ import * as api from "../api.js";
 import { errorBox, fill, h } from "../dom.js";
 import * as fmt from "../format.js";
 
-// Component values come in SI (henry, farad); shown in the unit a builder would use.
-function component(c) {
-  const kind = c.kind ?? c.type ?? c.element ?? "";
-  const where = c.position ?? c.placement ?? c.role ?? "";
-  let value = c.value_text ?? "";
-  const v = c.value ?? c.henry ?? c.farad ?? c.value_h ?? c.value_f;
-  if (!value && Number.isFinite(v)) {
-    const isL = /induct|^l$/i.test(kind) || c.henry !== undefined || c.value_h !== undefined;
-    value = isL ? scaled(v, "H") : scaled(v, "F");
-  }
-  return [where, kind, value].filter(Boolean).join(" ");
-}
-
-function scaled(v, unit) {
-  const steps = [[1e-12, "p"], [1e-9, "n"], [1e-6, "µ"], [1e-3, "m"], [1, ""]];
-  let best = steps[0];
-  for (const s of steps) if (Math.abs(v) >= s[0]) best = s;
-  return `${(v / best[0]).toPrecision(4)} ${best[1]}${unit}`;
-}
-
-function networkRow(n, i) {
-  const parts = n.components ?? n.elements ?? [n.series, n.shunt].filter(Boolean);
-  return h("li", {},
-    h("b", {}, n.topology ?? n.name ?? `Network ${i + 1}`), ": ",
-    parts.length ? parts.map(component).join(", ") : JSON.stringify(n));
+function networkRow(n) {
+  const bw = n.swr_bandwidth_2;
+  return h("li", { class: "network" },
+    h("b", {}, n.topology === "series_at_load" ? "Series element at the load" : "Shunt element at the load"), ": ",
+    (n.elements ?? []).map((e) => e.display).join(", then "),
+    bw && Number.isFinite(bw.width_hz) ? h("span", { class: "muted" }, ` — SWR≤2 over ${fmt.khz(bw.width_hz)}`) : null);
 }
 
 export function matchPanel(getMain, getPlane) {
@@ -49,11 +30,11 @@ export function matchPanel(getMain, getPlane) {
     fill(out, h("p", { class: "muted" }, `Working out networks at ${fmt.mhz(hz, 4)}…`));
     try {
       const res = await api.match(main.id, hz, getPlane());
-      const nets = res.networks ?? res.solutions ?? (Array.isArray(res) ? res : []);
-      const z = res.z_load ?? res.load ?? res.z ?? null;
+      const nets = res.networks ?? [];
       fill(out,
-        h("p", {}, `At ${fmt.mhz(res.f_hz ?? hz, 4)} on sweep #${main.id}`,
-          z && Number.isFinite(z.r ?? z.r_ohm) ? ` the load is ${fmt.impedance(z.r ?? z.r_ohm, z.x ?? z.x_ohm)}` : "", "."),
+        h("p", {}, `At ${fmt.mhz(res.at_hz ?? hz, 4)} (sweep #${main.id}, ${res.plane}): Z = `,
+          fmt.impedance(res.load_r_ohm, res.load_x_ohm), `, SWR ${fmt.swr(res.load_swr)}.`),
+        res.hint ? h("p", { class: "small" }, res.hint) : null,
         nets.length ? h("ul", {}, nets.map(networkRow)) : h("p", { class: "muted" }, "No L-network needed or possible here."));
     } catch (err) {
       fill(out, err.status === 404 || err.status === 405

@@ -3,16 +3,11 @@
 
 import { BASELINE_COLOUR, baseLayout, config, loadPlotly, toCsv } from "./common.js";
 
-/** The distance axis (m) and the magnitude (dB) of a /sweeps/{id}/dtf answer. */
+/** The distance axis (m), |ρ| in dB and the peaks of a GET /sweeps/{id}/dtf answer. */
 export function dtfArrays(body) {
-  const d = body.distance_m ?? body.distances_m ?? body.distance ?? [];
-  let y = body.magnitude_db ?? body.response_db ?? body.db;
-  if (!y) {
-    const mag = body.magnitude ?? body.response ?? [];
-    y = mag.map((m) => (m > 0 ? 20 * Math.log10(m) : null));
-  }
-  const peaks = body.peaks ?? body.faults ?? [];
-  return { d, y, peaks };
+  const d = body.distance_m ?? [];
+  const y = (body.reflection ?? []).map((m) => (m > 0 ? 20 * Math.log10(m) : null));
+  return { d, y, peaks: body.peaks ?? [], resolution: body.resolution_m, notes: body.notes ?? [], safety: body.safety };
 }
 
 export async function drawDtf(el, current, baseline, { filename = "dtf" } = {}) {
@@ -26,7 +21,8 @@ export async function drawDtf(el, current, baseline, { filename = "dtf" } = {}) 
   traces.push({ type: "scatter", mode: "lines", name: "this sweep", x: current.d, y: current.y,
     line: { color: "#2f5d62", width: 2 }, hovertemplate: "%{x:.2f} m<br>%{y:.1f} dB<extra>this sweep</extra>" });
   const px = current.peaks.map((p) => p.distance_m ?? p.d).filter(Number.isFinite);
-  const py = current.peaks.map((p) => p.magnitude_db ?? p.db ?? null);
+  // A peak's |ρ| in dB (negative of its return loss), on the same scale as the trace.
+  const py = current.peaks.map((p) => (p.reflection > 0 ? 20 * Math.log10(p.reflection) : null));
   if (px.length) {
     traces.push({ type: "scatter", mode: "markers", name: "reflections", x: px, y: py,
       marker: { symbol: "triangle-down", size: 10, color: "#a8382f" },
