@@ -588,7 +588,7 @@ def read_touchstone(text: str, *, ports: int | None = None, filename: str | None
     if (values is not None and stop < len(lines) and h.version == 1
             and not float(lines[stop].partition("!")[0].split()[0]) <= values[-1, 0]):
         values = None  # not noise after all: let the careful scan say what is wrong
-    if values is not None and values.shape[0] <= MAX_POINTS:
+    if values is not None:
         block = _Block(values, None, lines, start)
     else:
         scan = _scan_rows(lines, start, width, ports=nports, version=h.version,
