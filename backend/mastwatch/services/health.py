@@ -38,6 +38,7 @@ from mastwatch.services.thresholds import Thresholds, thresholds_for
 Status = Literal["ok", "watch", "fault", "unknown"]
 Level = Literal["info", "watch", "fault", "unknown"]
 _RANK: dict[str, int] = {"info": 0, "ok": 0, "watch": 1, "fault": 2}
+_BY_RANK: tuple[Status, ...] = ("ok", "watch", "fault")
 
 # A band is compared only where the sweep covers at least this share of it.
 MIN_BAND_COVERAGE = 0.5
@@ -444,7 +445,7 @@ def compare_band(
 
 def _worst(findings: Sequence[Finding]) -> Status:
     rank = max((_RANK.get(f.level, 0) for f in findings), default=0)
-    return ("ok", "watch", "fault")[rank]  # type: ignore[return-value]
+    return _BY_RANK[rank]
 
 
 # -- whole-sweep signatures ---------------------------------------------------------------

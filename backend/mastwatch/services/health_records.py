@@ -21,6 +21,7 @@ the baseline for the change-point test (services/changepoint.py).
 
 from __future__ import annotations
 
+import logging
 import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
@@ -37,9 +38,10 @@ from mastwatch.rf.errors import AnalysisError
 from mastwatch.services import codec
 from mastwatch.services.changepoint import drift_reason
 from mastwatch.services.errors import Invalid, not_found
-from mastwatch.services.health import DtfTrace, SweepView, Verdict, format_hz, judge
+from mastwatch.services.health import DtfTrace, Finding, SweepView, Verdict, format_hz, judge
 from mastwatch.services.thresholds import thresholds_for
 
+log = logging.getLogger(__name__)
 REJUDGE_LIMIT = 500  # sweeps judged again when a baseline changes (newest first)
 CANDIDATE_EVENTS = ("repair", "modification")
 
@@ -291,7 +293,15 @@ def judge_sweep(session: Session, row: SweepRow) -> None:
         return
     baseline = current_baseline(session, antenna.id)
     base_row = with_arrays(session, baseline.sweep_id) if baseline else None
-    verdict = verdict_for(session, antenna, row, base_row)
+    try:
+        verdict = verdict_for(session, antenna, row, base_row)
+    except (ArithmeticError, ValueError, AnalysisError) as exc:
+        # A verdict that cannot be computed must not cost the keeper the upload.
+        log.exception("sweep %s of antenna %s could not be judged", row.id, antenna.id)
+        verdict = Verdict(
+            "unknown",
+            (Finding("unknown", "not_judged", f"the verdict could not be computed: {exc}"),),
+        )
     prev = _previous(session, row)
     store_verdict(
         session,
