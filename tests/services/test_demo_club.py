@@ -210,7 +210,7 @@ def test_the_repaired_antenna_had_a_fault_and_is_back_to_normal_after_the_repair
 # -- loading through the records services ------------------------------------------------------
 
 
-def test_loader_loads_the_club_into_a_fresh_database(session, clean_db):
+def test_loader_loads_the_club_and_the_storm_check_flags_exactly_the_damaged(session, clean_db):
     before = row_counts(clean_db)
     summary = load_demo_club(session, None)
     assert isinstance(summary, DemoSummary)
@@ -244,3 +244,51 @@ def test_loader_loads_the_club_into_a_fresh_database(session, clean_db):
         for band in a.bands:
             for plane in planes:
                 assert (band, plane) in rows[row.id], (spec.filename, band, plane)
+
+    # -- the records' health on the loaded club (issue 5's storm test) -----------------
+    from mastwatch.db.models import Event
+    from mastwatch.services.health_records import current_baseline
+    from mastwatch.services.sitecheck import site_check
+
+    by_id = {v: k for k, v in summary.antenna_ids.items()}
+    # Each antenna has the baseline its keeper confirmed: the first sweep, or the
+    # first after its repair.
+    for key, antenna_id in summary.antenna_ids.items():
+        base = current_baseline(session, antenna_id)
+        assert base is not None, key
+        base_row = session.get(SweepRow, base.sweep_id)
+        repairs = [
+            e.occurred_at for e in SCENARIO.events if e.kind == "repair" and e.antenna == key
+        ]
+        first = min(
+            s.measured_at
+            for s in SCENARIO.sweeps
+            if s.antenna == key and all(s.measured_at > r for r in repairs)
+        )
+        assert base_row.measured_at.replace(tzinfo=None) == first.replace(tzinfo=None), key
+
+    storms = list(session.scalars(select(Event).where(Event.kind == "storm")))
+    assert len(storms) == 2
+    for storm in storms:
+        check = site_check(session, storm.site_id, str(storm.id))
+        flagged = {by_id[i] for i in check["flagged"]}
+        if storm.occurred_at.replace(tzinfo=None) == SCENARIO.storm_at.replace(tzinfo=None):
+            assert flagged == set(SCENARIO.damaged)
+        else:
+            assert flagged == set()
+        assert check["not_swept"] == []
+        assert check["cautions"]  # the check sends people up masts: cautions come with it
+
+    # The verdict stored with each sweep: only the scenario's faults, and the failed sweep.
+    expected = {}
+    for spec in SCENARIO.sweeps:
+        if spec.damage or spec.detune_hz:
+            expected[(spec.antenna, spec.measured_at.replace(tzinfo=None))] = "fault"
+        if spec.erratic:
+            expected[(spec.antenna, spec.measured_at.replace(tzinfo=None))] = "unknown"
+    not_ok = {
+        (by_id[r.antenna_id], r.measured_at.replace(tzinfo=None)): r.status
+        for r in stored.values()
+        if r.status != "ok"
+    }
+    assert not_ok == expected

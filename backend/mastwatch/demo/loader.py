@@ -18,6 +18,7 @@ from mastwatch.demo.club import DemoSummary, EventSpec, Scenario, SweepSpec, tou
 from mastwatch.services import antennas as antenna_service
 from mastwatch.services import cables as cable_service
 from mastwatch.services import events as event_service
+from mastwatch.services import health_records
 from mastwatch.services import sites as site_service
 from mastwatch.services.ingest import UploadMeta, ingest_sweep
 
@@ -25,8 +26,13 @@ if TYPE_CHECKING:
     from sqlalchemy.orm import Session
 
 
-def load(session: Session, scenario: Scenario) -> DemoSummary:
-    """Create every site, antenna, feedline, event and sweep of ``scenario``."""
+def load(session: Session, scenario: Scenario, *, confirm_baselines: bool = True) -> DemoSummary:
+    """Create every site, antenna, feedline, event and sweep of ``scenario``.
+
+    With ``confirm_baselines`` the demo keeper confirms each baseline candidate the
+    health service offers (the first sweep after installation, then the first after a
+    repair) as soon as it is on record, as a keeper looking at it would.
+    """
     started = time.perf_counter()
     cable_service.sync_builtin_cable_types(session)
     session.commit()
@@ -77,9 +83,13 @@ def load(session: Session, scenario: Scenario) -> DemoSummary:
     )
     event_ids: list[int] = []
     sweep_ids: list[int] = []
+    # Antennas whose next sweep is a baseline candidate: new ones, and after a repair.
+    due = set(antenna_ids)
     for item in timeline:
         if isinstance(item, EventSpec):
             event_ids.append(_add_event(session, item, site_ids, antenna_ids))
+            if item.antenna is not None and item.kind in health_records.CANDIDATE_EVENTS:
+                due.add(item.antenna)
             continue
         result = ingest_sweep(
             session,
@@ -95,6 +105,9 @@ def load(session: Session, scenario: Scenario) -> DemoSummary:
             ),
         )
         sweep_ids.append(result.sweep.id)
+        if confirm_baselines and item.antenna in due:
+            _confirm_candidate(session, antenna_ids[item.antenna])
+            due.discard(item.antenna)
 
     return DemoSummary(
         club=scenario.club,
@@ -115,3 +128,17 @@ def _add_event(
     if e.site is None:
         raise ValueError(f"demo event {e.title!r} names neither a site nor an antenna")
     return event_service.create_site_event(session, site_ids[e.site], data).id
+
+
+def _confirm_candidate(session: Session, antenna_id: int) -> None:
+    """Confirm the offered baseline candidate when it is not the baseline yet."""
+    antenna = antenna_service.get_antenna(session, antenna_id)
+    candidate = health_records.baseline_candidate(session, antenna)
+    if candidate is None or candidate["is_current"]:
+        return
+    health_records.set_baseline(
+        session,
+        antenna_id,
+        candidate["sweep_id"],
+        reason=f"confirmed by the demo keeper: {candidate['why']}",
+    )
