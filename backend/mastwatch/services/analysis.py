@@ -37,13 +37,26 @@ class Analysis:
     def planes(self) -> list[PlaneView]:
         return [self.measured] + ([self.feedpoint] if self.feedpoint else [])
 
+    def docs(self) -> dict[str, dict[str, Any]]:
+        """``SweepMetrics.to_dict()`` per plane, each computed once (the feedpoint view of a
+        feedpoint sweep is the same object as the measured one)."""
+        cached = self.__dict__.get("_docs")
+        if cached is None:
+            by_id: dict[int, dict[str, Any]] = {}
+            cached = {}
+            for view in self.planes():
+                key = id(view.metrics)
+                if key not in by_id:
+                    by_id[key] = view.metrics.to_dict()
+                cached[view.plane] = by_id[key]
+            object.__setattr__(self, "_docs", cached)
+        return cached
+
     def summary(self) -> dict[str, Any]:
         """Whole-sweep metrics per plane (resonances, bandwidths, ...), without the bands."""
         out: dict[str, Any] = {"feedpoint_note": self.feedpoint_note}
-        for view in self.planes():
-            doc = view.metrics.to_dict()
-            doc.pop("bands", None)
-            out[view.plane] = doc
+        for plane, doc in self.docs().items():
+            out[plane] = {k: v for k, v in doc.items() if k != "bands"}
         return out
 
 

@@ -25,18 +25,18 @@ from dataclasses import dataclass, field
 from datetime import datetime
 from typing import Any
 
-from sqlalchemy import select
+from sqlalchemy import insert, select
 from sqlalchemy.exc import IntegrityError
-from sqlalchemy.orm import Session
+from sqlalchemy.orm import Session, joinedload
 
-from mastwatch.db.models import BAND_METRIC_FIELDS, SweepMetrics
+from mastwatch.db.models import BAND_METRIC_FIELDS, Antenna, Feedline, SweepMetrics
 from mastwatch.db.models import Sweep as SweepRow
 from mastwatch.db.types import utcnow
 from mastwatch.rf import lines
 from mastwatch.services import codec
 from mastwatch.services.analysis import Analysis, analyse
-from mastwatch.services.antennas import feedline_snapshot, get_antenna, to_rf_feedline
-from mastwatch.services.errors import Invalid
+from mastwatch.services.antennas import feedline_snapshot, to_rf_feedline
+from mastwatch.services.errors import Invalid, not_found
 from mastwatch.services.timeutil import to_utc
 
 PostIngestHook = Callable[[Session, SweepRow], None]
@@ -78,6 +78,21 @@ def find_existing(session: Session, antenna_id: int, sha256: str) -> SweepRow | 
     )
 
 
+def get_antenna_for_ingest(session: Session, antenna_id: int) -> Antenna:
+    """The antenna with its site and feedline (and cable type) in one query."""
+    antenna = session.scalar(
+        select(Antenna)
+        .where(Antenna.id == antenna_id)
+        .options(
+            joinedload(Antenna.site),
+            joinedload(Antenna.feedline).joinedload(Feedline.cable_type),
+        )
+    )
+    if antenna is None:
+        raise not_found("antenna", antenna_id)
+    return antenna
+
+
 def ingest_sweep(
     session: Session,
     antenna_id: int,
@@ -88,7 +103,7 @@ def ingest_sweep(
     """Store one sweep file for an antenna (idempotent per file content)."""
     if meta.reference_plane not in ("feedpoint", "line_input"):
         raise Invalid("reference_plane must be 'feedpoint' or 'line_input'")
-    antenna = get_antenna(session, antenna_id)
+    antenna = get_antenna_for_ingest(session, antenna_id)
     sha256 = hashlib.sha256(data).hexdigest()
     existing = find_existing(session, antenna.id, sha256)
     if existing is not None:
@@ -97,9 +112,10 @@ def ingest_sweep(
     feedline: lines.Feedline | None = None
     if meta.reference_plane == "line_input" and antenna.feedline is not None:
         feedline = to_rf_feedline(antenna.feedline)
-    # End the read transaction before the (slow) computation: on SQLite a transaction
-    # that read before another writer committed could not be upgraded to a write later.
-    session.commit()
+    if session.get_bind().dialect.name == "sqlite":
+        # End the read transaction before the computation: on SQLite a transaction that
+        # read before another writer committed cannot be upgraded to a write later.
+        session.commit()
 
     sweep = parse_upload(data, filename, meta.columns)
     analysis = analyse(sweep, meta.reference_plane, feedline, site.itu_region)
@@ -115,8 +131,8 @@ def ingest_sweep(
     try:
         session.add(row)
         session.flush()
-        session.add_all(metrics_rows(row, analysis))
-        session.flush()
+        # Core bulk insert: one executemany (one statement on PostgreSQL), no RETURNING.
+        session.execute(insert(SweepMetrics.__table__), metrics_rows(row, analysis))
         run_post_ingest_hooks(session, row)
         session.commit()
     except IntegrityError:
@@ -137,7 +153,7 @@ def build_sweep_row(
     analysis: Analysis,
     feedline: lines.Feedline | None,
 ) -> SweepRow:
-    measured = analysis.measured.metrics.to_dict()
+    measured = analysis.docs()["measured"]
     at_feed = analysis.feedpoint
     return SweepRow(
         antenna_id=antenna_id,
@@ -171,21 +187,21 @@ def build_sweep_row(
     )
 
 
-def metrics_rows(row: SweepRow, analysis: Analysis) -> list[SweepMetrics]:
+def metrics_rows(row: SweepRow, analysis: Analysis) -> list[dict[str, Any]]:
     """One row per band and plane, with the sweep's antenna and time repeated (trend index)."""
     out = []
-    for view in analysis.planes():
-        for band in view.metrics.bands:
-            values = band.to_dict()
+    for plane, doc in analysis.docs().items():
+        for band in doc["bands"]:
+            values = {f: band[f] for f in BAND_METRIC_FIELDS}
             out.append(
-                SweepMetrics(
-                    sweep_id=row.id,
-                    antenna_id=row.antenna_id,
-                    measured_at=row.measured_at,
-                    band=band.band,
-                    plane=view.plane,
-                    **{f: values[f] for f in BAND_METRIC_FIELDS},
-                )
+                {
+                    "sweep_id": row.id,
+                    "antenna_id": row.antenna_id,
+                    "measured_at": row.measured_at,
+                    "band": band["band"],
+                    "plane": plane,
+                    **values,
+                }
             )
     return out
 

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
-from sqlalchemy import delete, func, select
+from sqlalchemy import delete, func, insert, select
 from sqlalchemy.orm import Session, undefer
 
 from mastwatch.db.models import Sweep as SweepRow
@@ -34,7 +34,7 @@ def recompute_sweep(session: Session, row: SweepRow) -> None:
         feedline_from_snapshot(snap) if snap and row.reference_plane == "line_input" else None
     )
     analysis = analyse(sweep, row.reference_plane, feedline, row.antenna.site.itu_region)
-    measured = analysis.measured.metrics.to_dict()
+    measured = analysis.docs()["measured"]
     row.min_swr, row.min_swr_hz = measured["min_swr"], measured["min_swr_hz"]
     row.summary = analysis.summary()
     at_feed = analysis.feedpoint
@@ -44,7 +44,7 @@ def recompute_sweep(session: Session, row: SweepRow) -> None:
         else None
     )
     session.execute(delete(SweepMetrics).where(SweepMetrics.sweep_id == row.id))
-    session.add_all(metrics_rows(row, analysis))
+    session.execute(insert(SweepMetrics.__table__), metrics_rows(row, analysis))
 
 
 def recompute_all(

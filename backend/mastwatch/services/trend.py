@@ -52,10 +52,9 @@ def trend_points(
     if until is not None:
         query = query.where(SweepMetrics.measured_at <= until)
     query = query.order_by(SweepMetrics.measured_at, SweepMetrics.sweep_id)
-    return [
-        {"sweep_id": sid, "measured_at": at, "value": value}
-        for sid, at, value in session.execute(query)
-    ]
+    # Core execution on the session's connection: plain rows, no ORM bookkeeping per row.
+    rows = session.connection().execute(query)
+    return [{"sweep_id": sid, "measured_at": at, "value": value} for sid, at, value in rows]
 
 
 def antenna_trend(

@@ -3,13 +3,13 @@
 from __future__ import annotations
 
 from datetime import datetime
-from typing import Annotated, Literal
+from typing import Annotated, Any, Literal
 
 from fastapi import APIRouter, Query
 
 from mastwatch.api.deps import SessionDep
 from mastwatch.api.schemas.records import EventPublic
-from mastwatch.api.schemas.sweeps import TrendPoint, TrendPublic
+from mastwatch.api.schemas.sweeps import TrendPublic
 from mastwatch.services import trend
 
 router = APIRouter(tags=["trend"])
@@ -24,16 +24,17 @@ def antenna_trend(
     plane: Literal["measured", "feedpoint"] = "feedpoint",
     since: datetime | None = None,
     until: datetime | None = None,
-) -> TrendPublic:
+) -> dict[str, Any]:
     t = trend.antenna_trend(session, antenna_id, band, metric, plane, since, until)
-    return TrendPublic(
-        antenna_id=t.antenna_id,
-        band=t.band,
-        metric=t.metric.name,
-        plane=plane,
-        field=t.metric.field,
-        label=t.metric.label,
-        unit=t.metric.unit,
-        points=[TrendPoint(**p) for p in t.points],
-        events=[EventPublic.model_validate(e) for e in t.events],
-    )
+    # Plain dicts: the response model validates and serialises them once, in pydantic-core.
+    return {
+        "antenna_id": t.antenna_id,
+        "band": t.band,
+        "metric": t.metric.name,
+        "plane": plane,
+        "field": t.metric.field,
+        "label": t.metric.label,
+        "unit": t.metric.unit,
+        "points": t.points,
+        "events": [EventPublic.model_validate(e) for e in t.events],
+    }
