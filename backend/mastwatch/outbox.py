@@ -180,7 +180,12 @@ class Outbox:
                 outcome: Literal["created", "duplicate"] = (
                     "created" if response.status_code == 201 else "duplicate"
                 )
-                results.append(PushResult(entry, outcome, sweep_id=body.get("id")))
+                sweep_id = body.get("id")
+                results.append(
+                    PushResult(
+                        entry, outcome, sweep_id=sweep_id if isinstance(sweep_id, int) else None
+                    )
+                )
             elif 400 <= response.status_code < 500:
                 detail = str(body.get("detail") or response.text[:200])
                 if body.get("line") is not None:

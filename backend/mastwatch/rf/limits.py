@@ -7,4 +7,4 @@ MAX_POINTS = 100_001
 """Most frequency points in one sweep."""
 
 MAX_PASSIVE_GAMMA = 1.05
-"""|S11| above this cannot come from a passive one-port (a little over 1 allows calibration noise)."""
+"""|S11| above this cannot come from a passive one-port (a margin over 1 for calibration noise)."""

@@ -41,7 +41,7 @@ class SweepSource:
 
 
 def _frozen(a: np.ndarray) -> np.ndarray:
-    """A read-only contiguous array; copies unless it already is one (never freezes the caller's)."""
+    """A read-only contiguous array; copies unless it already is one (never the caller's)."""
     if a.flags.writeable or not a.flags.c_contiguous:
         a = np.array(a, copy=True, order="C")
         a.flags.writeable = False
