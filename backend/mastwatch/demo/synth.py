@@ -17,8 +17,9 @@ damage); this module adds the feedline damage and the measurement:
 
 All line maths is ``mastwatch.rf.lines.embed`` (the lossy-line transformation of the RF
 core); this module only cuts the feedline into sections. The same arguments and seed
-give the same Sweep, bit for bit (numpy's PCG64 generator is reproducible across
-platforms for a given seed).
+give the same Sweep, bit for bit, on a given numpy version (``default_rng(seed)`` is
+PCG64; numpy keeps its streams stable across platforms, but may change them between
+releases when a bug is fixed).
 """
 
 from __future__ import annotations
