@@ -171,3 +171,32 @@ def test_files_written_by_skrf(form: str, version: str) -> None:
     ours = read_sweep(text.encode(), "x.s1p")
     np.testing.assert_allclose(ours.freq_hz, net.f, rtol=1e-15)
     np.testing.assert_allclose(ours.gamma, net.s[:, 0, 0], rtol=1e-12, atol=0)
+
+
+@pytest.mark.parametrize("parameter", ["Z", "Y"])
+def test_v2_two_port_with_different_port_references(parameter: str, tmp_path: Path) -> None:
+    # A T-network (series Za, Zb, shunt Zc): Z11 = Za + Zc, Z22 = Zb + Zc, Z12 = Z21 = Zc
+    # (Pozar §4.2, from memory). With [Reference] 50 75, S11 is the reflection at port 1
+    # with port 2 ended in 75 Ω: Zin = Za + Zc‖(Zb + 75), S11 = (Zin − 50)/(Zin + 50).
+    rng = np.random.default_rng(3)
+    n = len(F_HZ)
+    za, zb, zc = (rng.uniform(5, 100, n) + 1j * rng.uniform(-50, 50, n) for _ in range(3))
+    z = np.empty((n, 2, 2), dtype=complex)
+    z[:, 0, 0], z[:, 1, 1] = za + zc, zb + zc
+    z[:, 0, 1] = z[:, 1, 0] = zc
+    m = z if parameter == "Z" else np.linalg.inv(z)
+    rows = [f"{float(F_HZ[k])!r} " + " ".join(
+        f"{complex(v).real!r} {complex(v).imag!r}"
+        for v in (m[k, 0, 0], m[k, 1, 0], m[k, 0, 1], m[k, 1, 1])) for k in range(n)]
+    text = (f"[Version] 2.0\n# Hz {parameter} RI\n[Number of Ports] 2\n"
+            f"[Two-Port Data Order] 21_12\n[Number of Frequencies] {n}\n[Reference] 50 75\n"
+            "[Network Data]\n" + "\n".join(rows) + "\n[End]\n")
+    ours = read_sweep(text.encode(), "tee.s2p")
+    zin = za + zc * (zb + 75) / (zc + zb + 75)
+    assert ours.z0 == 50.0
+    np.testing.assert_allclose(ours.gamma, (zin - 50) / (zin + 50), rtol=1e-12)
+    path = tmp_path / "tee.s2p"
+    path.write_text(text)
+    net = skrf.Network(str(path))
+    np.testing.assert_allclose(ours.gamma, net.s[:, 0, 0], rtol=1e-12, atol=0)
+    np.testing.assert_allclose(ours.s21, net.s[:, 1, 0], rtol=1e-12, atol=0)
