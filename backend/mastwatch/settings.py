@@ -11,7 +11,6 @@ from __future__ import annotations
 import zoneinfo
 from functools import lru_cache
 from pathlib import Path
-from typing import Literal
 
 from pydantic import Field, field_validator, model_validator
 from pydantic_settings import BaseSettings, SettingsConfigDict
@@ -45,8 +44,9 @@ class Settings(BaseSettings):
         default="UTC",
         description="IANA time zone used where a site has none of its own.",
     )
-    default_region: Literal[1, 2, 3] = Field(
-        default=1, description="ITU region preselected for new sites (band plan)."
+    # An int with bounds rather than Literal[1, 2, 3]: environment values arrive as text.
+    default_region: int = Field(
+        default=1, ge=1, le=3, description="ITU region preselected for new sites (band plan)."
     )
     demo: bool = Field(
         default=False,

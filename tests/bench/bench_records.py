@@ -286,7 +286,8 @@ def _bench(label: str, url: str, data_dir: Path) -> None:
             f"[{label}] trend {big} sweeps: service {1e3 * t[f'service_{big}']:.1f} ms, "
             f"raw SQL {1e3 * t[f'raw_{big}']:.1f} ms: ratio "
             f"{t[f'service_{big}'] / t[f'raw_{big}']:.2f}× (target ≤ 2×); endpoint with JSON "
-            f"{1e3 * t[f'endpoint_{big}']:.1f} ms ({t[f'endpoint_{big}'] / t[f'raw_{big}']:.2f}× raw)"
+            f"{1e3 * t[f'endpoint_{big}']:.1f} ms "
+            f"({t[f'endpoint_{big}'] / t[f'raw_{big}']:.2f}× raw)"
         )
         print(
             f"[{label}] trend growth {small} → {big} sweeps (rows ×{big // small}): service "
