@@ -304,7 +304,8 @@ class _Model:
                 best = (v, k1, t)
         _, k, t = best
         g = self.g[k] + t * (self.g[k + 1] - self.g[k])  # |Γ|² again, free of cancellation
-        return (abs(complex(g)) ** 2, float(f[k] + t * self.df[k]), k, t)
+        hz = min(max(float(f[k] + t * self.df[k]), lo), hi)  # no round-off past the edges
+        return (abs(complex(g)) ** 2, hz, k, t)
 
     def span(self, k: int, t: float, m2: float) -> tuple[float, float, bool, bool]:
         """The contiguous span where |Γ|² ≤ m2 around the point (k, t), which lies inside it.
@@ -405,7 +406,7 @@ def _quadratic_derivative(x: np.ndarray, y: np.ndarray, at: np.ndarray) -> np.nd
 def _impedance(sweep: Sweep, idx: np.ndarray) -> np.ndarray:
     """Z = z0·(1+Γ)/(1−Γ) at the given point indices only (inf/nan where Γ = 1)."""
     g = sweep.gamma[idx]
-    with np.errstate(divide="ignore", invalid="ignore"):
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         return sweep.z0 * (1 + g) / (1 - g)
 
 
@@ -443,6 +444,32 @@ def _crossings(y: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return a[order], b[order]
 
 
+def _derivatives(
+    sweep: Sweep, ka: np.ndarray, kb: np.ndarray, t: np.ndarray, hz: np.ndarray
+) -> np.ndarray:
+    """dZ/df at each crossing (hz), from the points around it (needs n ≥ 3)."""
+    f, n = sweep.freq_hz, sweep.points
+    # adjacent pair (k, k+1): the quadratic through three points around the crossing,
+    # (k−1, k, k+1) if it lies in the lower half of its segment, else (k, k+1, k+2)
+    j = np.clip(np.where(t < 0.5, ka - 1, ka), 0, n - 3)
+    idx = j[:, None] + np.arange(3)[None, :]
+    dz = _quadratic_derivative(f[idx], _impedance(sweep, idx), hz)
+    # merged noise cluster (a, b): a least-squares slope over the cluster and as much
+    # again on each side, so the noise averages out (a few clusters per sweep at most)
+    for i in np.flatnonzero(kb > ka + 1):
+        width = int(kb[i] - ka[i])
+        w = np.arange(max(0, ka[i] - width), min(n, kb[i] + width + 1))
+        zw = _impedance(sweep, w)
+        ok = np.isfinite(zw)
+        fw, zw = f[w][ok], zw[ok]
+        if fw.size < 2:
+            dz[i] = np.nan
+            continue
+        fw = fw - fw.mean()
+        dz[i] = np.sum(fw * (zw - zw.mean())) / np.sum(fw * fw)
+    return dz
+
+
 def _resonances(sweep: Sweep) -> tuple[Resonance, ...]:
     f, g = sweep.freq_hz, sweep.gamma
     n = f.size
@@ -464,21 +491,9 @@ def _resonances(sweep: Sweep) -> tuple[Resonance, ...]:
     t = xa / (xa - xb)
     hz = f[ka] + t * (f[kb] - f[ka])
     r_res = ra + t * (rb - ra)
-    if n >= 3:
-        # adjacent pair (k, k+1): the quadratic through three points around the crossing,
-        # (k−1, k, k+1) if it lies in the lower half of its segment, else (k, k+1, k+2)
-        j = np.clip(np.where(t < 0.5, ka - 1, ka), 0, n - 3)
-        idx = j[:, None] + np.arange(3)[None, :]
-        dz = _quadratic_derivative(f[idx], _impedance(sweep, idx), hz)
-        # merged noise cluster (a, b): a least-squares slope over the cluster and as much
-        # again on each side, so the noise averages out (a few clusters per sweep at most)
-        for i in np.flatnonzero(kb > ka + 1):
-            width = int(kb[i] - ka[i])
-            w = np.arange(max(0, ka[i] - width), min(n, kb[i] + width + 1))
-            fw, zw = f[w] - f[w].mean(), _impedance(sweep, w)
-            dz[i] = np.sum(fw * (zw - zw.mean())) / np.sum(fw * fw)
-    else:
-        dz = (zb[keep] - za[keep]) / (f[1] - f[0])
+    # Z may be infinite next to Γ = 1: such a derivative is not finite and Q stays None
+    with np.errstate(all="ignore"):
+        dz = _derivatives(sweep, ka, kb, t, hz) if n >= 3 else (zb[keep] - za[keep]) / (f[1] - f[0])
     with np.errstate(divide="ignore", invalid="ignore"):
         q = hz * np.abs(dz) / (2.0 * r_res)
     q_ok = np.isfinite(q) & (r_res > 0)
