@@ -199,8 +199,11 @@ def shot(page: Any, name: str) -> Path:
 
 
 def wait_ready(page: Any, path_prefix: str = "") -> None:
-    """Wait until the router has rendered the current page (main[data-ready])."""
-    page.wait_for_selector("main[data-ready]", timeout=30_000)
-    if path_prefix:
-        ready = page.get_attribute("main", "data-ready") or ""
-        assert ready.startswith(path_prefix), ready
+    """Wait until the router has rendered a page whose path starts with ``path_prefix``
+    (``main[data-ready]`` holds the rendered path; it is cleared when a new page starts)."""
+    page.wait_for_function(
+        "p => { const r = document.querySelector('main')?.dataset.ready;"
+        " return r !== undefined && r.startsWith(p); }",
+        arg=path_prefix,
+        timeout=30_000,
+    )

@@ -32,7 +32,7 @@ function metricsTable(result) {
       `${result.file_format ?? "file"}, ${result.points} points, ${fmt.mhz(pm.f_start_hz)} – ${fmt.mhz(pm.f_stop_hz)}. `,
       `Min SWR ${fmt.swr(pm.min_swr)} at ${fmt.mhz(pm.min_swr_hz)}`,
       res.length ? `; resonance${res.length > 1 ? "s" : ""} ${res.map((r) => fmt.mhz(r.hz)).join(", ")}` : "",
-      plane === "feedpoint" ? " (at the feedpoint, feedline taken out)" : "", "."),
+      result.feedline && plane === "feedpoint" ? " (at the feedpoint, feedline taken out)" : "", "."),
     rows.length ? h("div", { class: "table-wrap" }, h("table", {},
       h("thead", {}, h("tr", {}, h("th", {}, "Band"), h("th", { class: "num" }, "Min SWR"),
         h("th", { class: "num" }, "SWR at centre"), h("th", { class: "num" }, "SWR≤2 width"))),
@@ -111,8 +111,9 @@ class FileItem {
   /** The antenna's band plan and, for a line-input sweep, its feedline, for the preview. */
   previewFields() {
     const a = this.ctx.antennaById.get(Number(this.antenna.value));
-    const site = a ? this.ctx.siteById.get(a.site_id) : null;
-    const out = { reference_plane: this.plane.value, itu_region: site?.itu_region };
+    // The site's band plan region would go here too (itu_region), but the analyze route
+    // refuses it as a form string today; the server's default region is used meanwhile.
+    const out = { reference_plane: this.plane.value };
     if (this.plane.value === "line_input" && a?.feedline) {
       Object.assign(out, { cable_type_id: a.feedline.cable_type.id, length_m: a.feedline.length_m,
         connectors: a.feedline.connectors });

@@ -1,0 +1,95 @@
+"""Upload by drag and drop: preview from /analyze, then the new sweep in the history;
+the same file again is reported as a duplicate; a bad file shows its error and line."""
+
+from __future__ import annotations
+
+import base64
+from typing import Any
+
+from tests.browser.conftest import Club, PageLog, shot, wait_ready
+from tests.browser.sweepfiles import bad_touchstone, touchstone
+
+DROP = """([name, b64]) => {
+  const bytes = Uint8Array.from(atob(b64), (c) => c.charCodeAt(0));
+  const dt = new DataTransfer();
+  dt.items.add(new File([bytes], name, { type: "application/octet-stream" }));
+  return dt;
+}"""
+
+
+def _drop(page: Any, name: str, data: bytes) -> Any:
+    dt = page.evaluate_handle(DROP, [name, base64.b64encode(data).decode()])
+    page.dispatch_event("#drop-zone", "drop", {"dataTransfer": dt})
+    return page.locator(f'.file-card[data-file="{name}"]')
+
+
+def _open_upload(page: Any, antenna_id: int) -> None:
+    page.set_viewport_size({"width": 1280, "height": 900})
+    page.goto(f"/#/upload?antenna={antenna_id}")
+    wait_ready(page, "/upload")
+
+
+def test_drop_preview_then_save_shows_in_history(page: Any, page_log: PageLog, club: Club,
+                                                 live_server: Any) -> None:
+    ant = next(a for a in club.antennas if a["name"] == "40 m vertical")
+    _open_upload(page, ant["id"])
+    data = touchstone(7.05e6, r_ohm=40.0, q=9.0, points=401, comment="dropped in the browser")
+    card = _drop(page, "hilltop-after-storm.s1p", data)
+    card.locator(".file-state.previewed").wait_for()
+    # The preview is the server's /analyze answer for the same bytes.
+    expected = live_server.api.post("/analyze", files={"file": ("x.s1p", data)},
+                                    data={"reference_plane": "feedpoint"}).json()
+    text = card.locator(".preview").inner_text()
+    assert "401 points" in text
+    assert f"Min SWR {expected['metrics']['measured']['min_swr']:.2f}" in text
+    page.wait_for_function(
+        "n => document.querySelector(`.file-card[data-file='${n}'] .smith-preview`)"
+        "?.data?.length > 0",
+        arg="hilltop-after-storm.s1p")
+    shot(page, "upload-preview")
+    card.locator("button", has_text="Save").click()
+    card.locator('[data-result="saved"]').or_(card.locator(".file-state.saved")).first.wait_for()
+    link = card.locator(".file-state a")
+    href = link.get_attribute("href") or ""
+    sweep_id = int(href.rsplit("=", 1)[1])
+    assert live_server.api.get(f"/sweeps/{sweep_id}").json()["antenna_id"] == ant["id"]
+    shot(page, "upload-saved")
+    link.click()
+    wait_ready(page, "/antenna/")
+    assert page.locator(f'.history li[data-sweep-id="{sweep_id}"]').count() == 1
+    assert page.locator(f'.history input[data-sweep-id="{sweep_id}"]').is_checked()
+    assert page_log.errors == []
+
+
+def test_same_file_again_is_reported_as_duplicate(page: Any, page_log: PageLog, club: Club,
+                                                  live_server: Any) -> None:
+    ant = next(a for a in club.antennas if a["name"] == "40 m dipole")
+    existing = club.sweeps[ant["id"]][-1]
+    original = live_server.api.get(f"/sweeps/{existing['id']}/file").content
+    _open_upload(page, ant["id"])
+    card = _drop(page, existing["filename"], original)
+    card.locator(".file-state.previewed").wait_for()
+    card.locator("button", has_text="Save").click()
+    card.locator(".file-state.duplicate").wait_for()
+    assert f"sweep #{existing['id']}" in card.locator(".file-state").inner_text()
+    assert card.get_attribute("data-result") == "duplicate"
+    assert page_log.errors == []
+
+
+def test_bad_file_shows_error_with_line(page: Any, page_log: PageLog, club: Club,
+                                        live_server: Any) -> None:
+    ant = club.antennas[0]
+    _open_upload(page, ant["id"])
+    data, line = bad_touchstone()
+    card = _drop(page, "broken.s1p", data)
+    card.locator(".file-state.failed").wait_for()
+    err = card.locator(".error").inner_text()
+    expected = live_server.api.post("/analyze", files={"file": ("broken.s1p", data)}).json()
+    assert expected["line"] == line
+    assert f"(line {line})" in err
+    assert expected["detail"] in err
+    assert card.locator("button", has_text="Save").is_disabled()
+    shot(page, "upload-bad-file")
+    # The 422 of the preview is the only failed request, and it is the expected one.
+    assert [f for f in page_log.failed if "/analyze" not in f] == []
+    assert all("422" in f for f in page_log.failed)
