@@ -23,9 +23,9 @@ import importlib.util
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from datetime import datetime
-from typing import Any
+from typing import Any, cast
 
-from sqlalchemy import insert, select
+from sqlalchemy import Table, insert, select
 from sqlalchemy.exc import IntegrityError
 from sqlalchemy.orm import Session, joinedload
 
@@ -44,6 +44,7 @@ POST_INGEST_HOOKS: list[PostIngestHook] = []
 """Extra callables run after each new sweep is flushed (see the module docstring)."""
 
 HEALTH_MODULE = "mastwatch.services.health"
+METRICS_TABLE = cast(Table, SweepMetrics.__table__)
 
 
 @dataclass
@@ -132,7 +133,7 @@ def ingest_sweep(
         session.add(row)
         session.flush()
         # Core bulk insert: one executemany (one statement on PostgreSQL), no RETURNING.
-        session.execute(insert(SweepMetrics.__table__), metrics_rows(row, analysis))
+        session.execute(insert(METRICS_TABLE), metrics_rows(row, analysis))
         run_post_ingest_hooks(session, row)
         session.commit()
     except IntegrityError:

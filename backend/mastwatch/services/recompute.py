@@ -18,7 +18,7 @@ from mastwatch.db.models import SweepMetrics
 from mastwatch.services import codec
 from mastwatch.services.analysis import analyse
 from mastwatch.services.antennas import feedline_from_snapshot
-from mastwatch.services.ingest import metrics_rows
+from mastwatch.services.ingest import METRICS_TABLE, metrics_rows
 
 DEFAULT_BATCH = 100
 
@@ -44,7 +44,7 @@ def recompute_sweep(session: Session, row: SweepRow) -> None:
         else None
     )
     session.execute(delete(SweepMetrics).where(SweepMetrics.sweep_id == row.id))
-    session.execute(insert(SweepMetrics.__table__), metrics_rows(row, analysis))
+    session.execute(insert(METRICS_TABLE), metrics_rows(row, analysis))
 
 
 def recompute_all(
