@@ -38,7 +38,7 @@ from datetime import date, datetime
 from typing import Any, Literal
 
 import numpy as np
-from scipy import stats
+from scipy import special
 
 MIN_POINTS = 6  # fewer sweeps than this: no trend to speak of
 
@@ -88,10 +88,10 @@ def _standardise_self_starting(x: np.ndarray, sigma_floor: float) -> tuple[np.nd
     u = np.zeros(x.size)
     if np.any(valid):
         tv, df = t[valid], n[valid] - 1
-        # Tail-safe: isf(sf) above the median, ppf(cdf) below it.
-        u[valid] = np.where(
-            tv > 0, stats.norm.isf(stats.t.sf(tv, df)), stats.norm.ppf(stats.t.cdf(tv, df))
-        )
+        # Student t cdf and the normal quantile as ufuncs (scipy.special), tail-safe:
+        # above the median through the upper tail, u = −Φ⁻¹(F_t(−T)).
+        lower = special.stdtr(df, -np.abs(tv))
+        u[valid] = np.where(tv > 0, -special.ndtri(lower), special.ndtri(lower))
     return u, mean
 
 

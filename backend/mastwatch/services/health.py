@@ -600,6 +600,11 @@ class DtfTrace:
         return cls(d, level, float(result.resolution_m))
 
 
+def _clip(trace: DtfTrace, max_m: float) -> DtfTrace:
+    keep = trace.distance_m <= max_m
+    return DtfTrace(trace.distance_m[keep], trace.level_db[keep], trace.resolution_m)
+
+
 def detect_new_reflections(
     current: DtfTrace,
     baseline: DtfTrace,
@@ -619,6 +624,9 @@ def detect_new_reflections(
     from scipy.signal import find_peaks
 
     cell = max(current.resolution_m, baseline.resolution_m)
+    if max_distance_m is not None:  # look no further than the line (and keep it cheap)
+        current = _clip(current, max_distance_m + 2 * cell)
+        baseline = _clip(baseline, max_distance_m + 2 * cell)
     peaks, _ = find_peaks(current.level_db, height=thresholds.new_reflection_min_db, prominence=3.0)
     base_peaks, _ = find_peaks(
         baseline.level_db, height=thresholds.new_reflection_min_db - 10, prominence=3.0

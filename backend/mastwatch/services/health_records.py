@@ -23,6 +23,7 @@ from __future__ import annotations
 
 import logging
 import math
+from collections import OrderedDict
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from datetime import UTC, datetime, time
@@ -36,13 +37,14 @@ from mastwatch.db.models import Sweep as SweepRow
 from mastwatch.db.types import utcnow
 from mastwatch.rf.errors import AnalysisError
 from mastwatch.services import codec
-from mastwatch.services.changepoint import drift_reason
+from mastwatch.services.changepoint import MIN_POINTS, drift_reason
 from mastwatch.services.errors import Invalid, not_found
 from mastwatch.services.health import DtfTrace, Finding, SweepView, Verdict, format_hz, judge
 from mastwatch.services.thresholds import thresholds_for
 
 log = logging.getLogger(__name__)
 REJUDGE_LIMIT = 500  # sweeps judged again when a baseline changes (newest first)
+DRIFT_WINDOW = 60  # sweeps of the trend the change-point test looks at
 CANDIDATE_EVENTS = ("repair", "modification")
 
 
@@ -127,6 +129,32 @@ def baseline_history(session: Session, antenna_id: int) -> list[Baseline]:
     )
 
 
+_DTF_CACHE: OrderedDict[tuple[Any, ...], DtfTrace | None] = OrderedDict()
+_DTF_CACHE_SIZE = 64
+
+
+def _dtf_trace(row: SweepRow, snap: dict[str, Any]) -> DtfTrace | None:
+    """The distance-to-fault view of a line-input sweep (cached: baselines recur)."""
+    key = (row.sha256, row.antenna_id, *sorted((k, str(v)) for k, v in snap.items()))
+    if key in _DTF_CACHE:
+        _DTF_CACHE.move_to_end(key)
+        return _DTF_CACHE[key]
+    from mastwatch.rf.dtf import distance_to_fault
+    from mastwatch.services.antennas import feedline_from_snapshot
+
+    try:
+        cable = feedline_from_snapshot(snap).cable
+        trace: DtfTrace | None = DtfTrace.from_result(
+            distance_to_fault(codec.measured_sweep(row), cable=cable)
+        )
+    except AnalysisError:
+        trace = None  # a single-band sweep: too coarse to place anything on the line
+    _DTF_CACHE[key] = trace
+    if len(_DTF_CACHE) > _DTF_CACHE_SIZE:
+        _DTF_CACHE.popitem(last=False)
+    return trace
+
+
 def _dtf_pair(current: SweepRow, base: SweepRow) -> tuple[DtfTrace, DtfTrace] | None:
     """Distance-to-fault views of two line-input sweeps, or None where they say nothing."""
     snap = current.feedline_snapshot
@@ -137,17 +165,11 @@ def _dtf_pair(current: SweepRow, base: SweepRow) -> tuple[DtfTrace, DtfTrace] | 
         or not (current.has_phase and base.has_phase)
     ):
         return None
-    from mastwatch.rf.dtf import distance_to_fault
-    from mastwatch.services.antennas import feedline_from_snapshot
-
-    cable = feedline_from_snapshot(snap).cable
-    try:
-        return (
-            DtfTrace.from_result(distance_to_fault(codec.measured_sweep(current), cable=cable)),
-            DtfTrace.from_result(distance_to_fault(codec.measured_sweep(base), cable=cable)),
-        )
-    except AnalysisError:
-        return None  # a single-band sweep: too coarse to place anything on the line
+    base_trace = _dtf_trace(base, snap)  # the baseline seen with today's line model
+    if base_trace is None:
+        return None
+    cur_trace = _dtf_trace(current, snap)
+    return None if cur_trace is None else (cur_trace, base_trace)
 
 
 def drift_reasons(
@@ -158,7 +180,25 @@ def drift_reasons(
     plane: str,
     bands: Sequence[str] | None,
 ) -> list[str]:
-    """Change-point reasons over the metric series since the baseline, up to ``row``."""
+    """Change-point reasons over the metric series since the baseline, up to ``row``.
+
+    At most the last DRIFT_WINDOW sweeps: bounded work per upload however long the
+    record; the self-starting chart needs no fixed start.
+    """
+    window = list(
+        session.scalars(
+            select(SweepRow.id)
+            .where(
+                SweepRow.antenna_id == antenna.id,
+                SweepRow.measured_at >= base.measured_at,
+                SweepRow.measured_at <= row.measured_at,
+            )
+            .order_by(SweepRow.measured_at.desc(), SweepRow.id.desc())
+            .limit(DRIFT_WINDOW)
+        )
+    )
+    if len(window) < MIN_POINTS:
+        return []
     query = (
         select(
             SweepMetrics.sweep_id,
@@ -172,12 +212,7 @@ def drift_reasons(
             SweepRow.status,
         )
         .join(SweepRow, SweepRow.id == SweepMetrics.sweep_id)
-        .where(
-            SweepMetrics.antenna_id == antenna.id,
-            SweepMetrics.plane == plane,
-            SweepMetrics.measured_at >= base.measured_at,
-            SweepMetrics.measured_at <= row.measured_at,
-        )
+        .where(SweepMetrics.sweep_id.in_(window), SweepMetrics.plane == plane)
         .order_by(SweepMetrics.measured_at, SweepMetrics.sweep_id)
     )
     series: dict[str, list[Any]] = {}
