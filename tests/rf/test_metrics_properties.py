@@ -26,9 +26,7 @@ PLAN = band_plan(1)
 def sweeps(draw: st.DrawFn) -> Sweep:
     n = draw(st.integers(min_value=1, max_value=60))
     start = draw(st.floats(min_value=1e5, max_value=4e8))
-    steps = draw(
-        st.lists(st.floats(min_value=1e2, max_value=5e6), min_size=n - 1, max_size=n - 1)
-    )
+    steps = draw(st.lists(st.floats(min_value=1e2, max_value=5e6), min_size=n - 1, max_size=n - 1))
     f = start + np.concatenate(([0.0], np.cumsum(steps)))
     mag = draw(st.lists(st.floats(min_value=0.0, max_value=1.0), min_size=n, max_size=n))
     phase = draw(st.lists(st.floats(min_value=-np.pi, max_value=np.pi), min_size=n, max_size=n))

@@ -243,16 +243,19 @@ class _Model:
             # A = 0 means Γk+1 = Γk (then B = 0 too): constant segment, minimum at t = 0
             tv = np.divide(-self.B, 2.0 * self.A, out=np.zeros_like(self.B), where=self.A > 0)
             self.tv = np.clip(tv, 0.0, 1.0)
-            self.vmin = (self.A * self.tv + self.B) * self.tv + self.C
+            # |Γ|² at the vertex from Γ itself: the expanded quadratic cancels near a zero
+            gv = g0 + self.tv * d
+            self.vmin = gv.real**2 + gv.imag**2
 
     # scalar work on one segment (plain floats: cheaper than numpy on one element)
 
     def _seg_min(self, k: int, ta: float, tb: float) -> tuple[float, float]:
         """(|Γ|², t) of the minimum on [ta, tb] of segment k."""
-        a, b, c = float(self.A[k]), float(self.B[k]), float(self.C[k])
+        a, b = float(self.A[k]), float(self.B[k])
         t = -b / (2.0 * a) if a > 0 else ta
         t = min(max(t, ta), tb)
-        return ((a * t + b) * t + c, t)
+        g = complex(self.g[k] + t * (self.g[k + 1] - self.g[k]))  # no cancellation near 0
+        return (g.real**2 + g.imag**2, t)
 
     def _seg_inside(self, k: int, m2: float) -> tuple[float, float] | None:
         """(t_lo, t_hi) of the part of segment k where |Γ(t)|² ≤ m2, or None."""
