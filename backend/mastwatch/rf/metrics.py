@@ -105,6 +105,8 @@ def _json_value(value: Any) -> Any:
         return value.to_dict()
     if isinstance(value, bool | str) or value is None:
         return value
+    if isinstance(value, np.bool_):
+        return bool(value)
     if isinstance(value, float | np.floating):
         v = float(value)
         return v if math.isfinite(v) else None
