@@ -142,7 +142,10 @@ def ingest_sweep(
         if winner is None:
             raise
         return IngestResult(winner, created=False)
-    return IngestResult(row, created=True)
+    # The metrics as stored, from memory: the response needs no read-back of the rows.
+    metrics = {"feedpoint_note": analysis.feedpoint_note, "measured": None, "feedpoint": None}
+    metrics.update(analysis.docs())
+    return IngestResult(row, created=True, extra={"metrics": metrics})
 
 
 def build_sweep_row(

@@ -60,7 +60,9 @@ def upload_sweep(
     result = ingest.ingest_sweep(session, antenna_id, data, filename, meta)
     if not result.created:
         response.status_code = status.HTTP_200_OK
-    return detail(result.sweep, duplicate=not result.created)
+        return detail(result.sweep, duplicate=True)
+    public = SweepPublic.model_validate(result.sweep).model_dump()
+    return {**public, "metrics": result.extra["metrics"], "duplicate": False}
 
 
 @router.get("/antennas/{antenna_id}/sweeps", response_model=SweepsPage)
