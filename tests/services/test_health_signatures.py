@@ -91,7 +91,9 @@ def test_no_change_stays_ok_over_200_noisy_repeats() -> None:
 
 def test_detuned_element(baseline: Sweep) -> None:
     v = verdict_for(synth(detune(ANTENNA, -180e3), seed=3), baseline)
-    assert v.status == "watch"
+    assert v.status == "watch", v.reasons
+    shift = next(f for f in v.findings if f.code == "resonance_shift")
+    assert shift.level == "watch"
     # 180 kHz of the 7.1 MHz band centre is 2.5 %: above 1.5 % (watch), below 3 % (fault).
     assert any(
         r.startswith("40m: resonance moved 18") and "kHz down since the baseline of 2025-04-02" in r

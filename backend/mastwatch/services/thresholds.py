@@ -38,7 +38,7 @@ class Thresholds:
     min_swr_rise_watch: float = 0.5
     # Share of the band usable at SWR ≤ 2 dropping by more than this (0…1, absolute).
     usable_drop_watch: float = 0.25
-    usable_drop_fault: float = 0.6
+    usable_drop_fault: float = 0.75
     # SWR ≤ 2 bandwidth shrinking by more than this share of the baseline's width.
     bandwidth_drop_watch_pct: float = 30.0
     # Return loss across the band (from the mean |Γ| over the band) worse by this many dB
