@@ -233,3 +233,12 @@ def test_every_json_key_is_documented(s1p: Path) -> None:
     keys = set(doc) | RESONANCE_KEYS | BANDWIDTH_KEYS | BAND_KEYS | AT_KEYS
     missing = sorted(k for k in keys if f"`{k}`" not in doc_text)
     assert missing == []
+
+
+def test_table_output_for_an_swr_only_file(swr_csv: Path, s1p: Path) -> None:
+    res = run(swr_csv, s1p)
+    assert res.exit_code == 0, res.output
+    out = res.stdout
+    assert "SWR only (no phase)" in out
+    assert "unavailable without phase: resonances, r_center_ohm" in out
+    assert out.index(str(swr_csv)) < out.index(str(s1p))  # files in the order given
