@@ -223,3 +223,29 @@ async def test_no_change_no_notification(client: httpx.AsyncClient, app: FastAPI
     await upload(client, ant["id"], rlc_touchstone(7.101e6), measured_at="2025-06-02T10:00")
     # unknown → ok when the baseline was set, then ok → ok: neither is news.
     assert _rows(app) == []
+
+
+@pytest.mark.anyio
+async def test_the_app_delivers_in_the_background(
+    settings: Settings, clean_db: Any, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    import asyncio
+
+    from mastwatch.api.app import create_app
+    from mastwatch.api.routes import health as health_routes
+
+    monkeypatch.setattr(health_routes, "NOTIFY_INTERVAL_S", 0.05)
+    with Receiver(fail=0) as hook:
+        cfg = _settings(settings, webhook_url=hook.url, webhook_secret=SECRET)
+        app = create_app(cfg, engine=clean_db)
+        async with app.router.lifespan_context(app):
+            transport = httpx.ASGITransport(app=app)
+            async with httpx.AsyncClient(transport=transport, base_url="http://test") as c:
+                await _verdict_change(c)
+            for _ in range(200):
+                if hook.requests:
+                    break
+                await asyncio.sleep(0.05)
+        assert len(hook.requests) == 1
+        body, headers = hook.requests[0]
+        assert verify(body, SECRET, headers[SIGNATURE_HEADER])
