@@ -100,3 +100,25 @@ async def test_baseline_sweep_cannot_be_deleted(
     assert (await client.delete(f"{API}/antennas/{antenna['id']}")).status_code == 204
     counts = row_counts(clean_db)
     assert counts["sweep"] == counts["baseline"] == counts["sweep_metrics"] == 0
+
+
+async def test_patch_sweep_moves_its_trend_point(client: httpx.AsyncClient) -> None:
+    _, antenna = await site_and_antenna(client)  # site in Europe/Berlin
+    a = (
+        await upload(client, antenna["id"], rlc_touchstone(q=11), measured_at="2025-01-01T10:00Z")
+    ).json()
+    b = (
+        await upload(client, antenna["id"], rlc_touchstone(q=12), measured_at="2025-02-01T10:00Z")
+    ).json()
+    r = await client.patch(
+        f"{API}/sweeps/{a['id']}",
+        json={"measured_at": "2025-03-01T12:00:00", "notes": "date fixed"},
+    )
+    assert r.status_code == 200, r.text
+    assert r.json()["measured_at"] == "2025-03-01T11:00:00Z" and r.json()["notes"] == "date fixed"
+    trend = (
+        await client.get(f"{API}/antennas/{antenna['id']}/trend", params={"band": "40m"})
+    ).json()
+    assert [p["sweep_id"] for p in trend["points"]] == [b["id"], a["id"]]
+    assert trend["points"][1]["measured_at"] == "2025-03-01T11:00:00Z"
+    assert (await client.patch(f"{API}/sweeps/999999", json={"notes": "x"})).status_code == 404

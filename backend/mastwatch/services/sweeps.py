@@ -8,7 +8,7 @@ from datetime import datetime
 from typing import Any
 
 import numpy as np
-from sqlalchemy import func, select
+from sqlalchemy import func, select, update
 from sqlalchemy.orm import Session, undefer
 
 from mastwatch.db.models import BAND_METRIC_FIELDS, Baseline, SweepMetrics
@@ -19,6 +19,7 @@ from mastwatch.services import codec
 from mastwatch.services.antennas import get_antenna
 from mastwatch.services.decimate import keep_indices
 from mastwatch.services.errors import Conflict, Invalid, not_found
+from mastwatch.services.timeutil import to_utc
 
 ARRAY_COLUMNS = ("original", "freq_hz", "gamma", "gamma_feedpoint")
 
@@ -86,6 +87,28 @@ def plane_metrics(row: SweepRow) -> dict[str, Any]:
 
 def band_row(m: SweepMetrics) -> dict[str, Any]:
     return {"band": m.band, **{f: getattr(m, f) for f in BAND_METRIC_FIELDS}}
+
+
+def update_sweep(session: Session, sweep_id: int, changes: dict[str, Any]) -> SweepRow:
+    """Change what the keeper said about a sweep (time, operator, conditions, notes).
+
+    A new ``measured_at`` is written to the sweep and to its metrics rows (their copy
+    serves the trend index) in one transaction.
+    """
+    row = get_sweep(session, sweep_id)
+    if changes.get("measured_at") is not None:
+        changes["measured_at"] = to_utc(changes["measured_at"], row.antenna.site.timezone)
+        changes["measured_at_source"] = "form"
+        session.execute(
+            update(SweepMetrics)
+            .where(SweepMetrics.sweep_id == row.id)
+            .values(measured_at=changes["measured_at"])
+        )
+    for key, value in changes.items():
+        if value is not None:
+            setattr(row, key, value)
+    session.commit()
+    return row
 
 
 def delete_sweep(session: Session, sweep_id: int) -> None:

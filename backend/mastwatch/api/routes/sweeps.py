@@ -13,6 +13,7 @@ from mastwatch.api.schemas.sweeps import (
     SweepDetail,
     SweepPublic,
     SweepsPage,
+    SweepUpdate,
     UploadResult,
 )
 from mastwatch.api.uploads import read_upload
@@ -89,6 +90,12 @@ def list_sweeps(
 @router.get("/sweeps/{sweep_id}", response_model=SweepDetail)
 def get_sweep(sweep_id: int, session: SessionDep) -> dict[str, Any]:
     return detail(sweeps.get_sweep(session, sweep_id))
+
+
+@router.patch("/sweeps/{sweep_id}", response_model=SweepDetail)
+def update_sweep(sweep_id: int, body: SweepUpdate, session: SessionDep) -> dict[str, Any]:
+    """Change the sweep's time, operator, conditions or notes (the data stays as uploaded)."""
+    return detail(sweeps.update_sweep(session, sweep_id, body.model_dump(exclude_unset=True)))
 
 
 @router.delete("/sweeps/{sweep_id}", status_code=status.HTTP_204_NO_CONTENT)

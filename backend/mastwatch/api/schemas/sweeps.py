@@ -8,7 +8,7 @@ from __future__ import annotations
 from datetime import datetime
 from typing import Any, Literal
 
-from pydantic import BaseModel, ConfigDict
+from pydantic import BaseModel, ConfigDict, Field
 
 from mastwatch.api.schemas.records import EventPublic
 
@@ -81,6 +81,13 @@ class SweepPublic(BaseModel):
     has_feedpoint: bool
     status: str | None
     status_reasons: list[Any]
+
+
+class SweepUpdate(BaseModel):
+    measured_at: datetime | None = Field(default=None, description="naive = site's local time")
+    operator: str | None = Field(default=None, max_length=100)
+    conditions: str | None = None
+    notes: str | None = None
 
 
 class SweepDetail(SweepPublic):
