@@ -143,7 +143,11 @@ def ingest_sweep(
             raise
         return IngestResult(winner, created=False)
     # The metrics as stored, from memory: the response needs no read-back of the rows.
-    metrics = {"feedpoint_note": analysis.feedpoint_note, "measured": None, "feedpoint": None}
+    metrics: dict[str, Any] = {
+        "feedpoint_note": analysis.feedpoint_note,
+        "measured": None,
+        "feedpoint": None,
+    }
     metrics.update(analysis.docs())
     return IngestResult(row, created=True, extra={"metrics": metrics})
 
