@@ -122,3 +122,42 @@ async def test_patch_sweep_moves_its_trend_point(client: httpx.AsyncClient) -> N
     assert [p["sweep_id"] for p in trend["points"]] == [b["id"], a["id"]]
     assert trend["points"][1]["measured_at"] == "2025-03-01T11:00:00Z"
     assert (await client.patch(f"{API}/sweeps/999999", json={"notes": "x"})).status_code == 404
+
+
+async def test_swr_only_sweep(client: httpx.AsyncClient) -> None:
+    _, antenna = await site_and_antenna(client)
+    rows = "\n".join(f"{7.0 + 0.01 * i:.2f},{1.2 + abs(i - 10) * 0.1:.2f}" for i in range(21))
+    r = await upload(client, antenna["id"], f"freq_mhz,swr\n{rows}\n".encode(), "swr.csv")
+    assert r.status_code == 201, r.text
+    sweep = r.json()
+    assert sweep["has_phase"] is False and sweep["min_swr"] == pytest.approx(1.2)
+    assert "resonances" in sweep["metrics"]["measured"]["unavailable"]
+    data = (await client.get(f"{API}/sweeps/{sweep['id']}/data")).json()
+    assert data["measured"]["r_ohm"] is None and data["measured"]["x_ohm"] is None
+    assert data["measured"]["swr"][10] == pytest.approx(1.2)
+    t = await client.get(f"{API}/sweeps/{sweep['id']}/touchstone")
+    assert t.status_code == 422 and "SWR only" in t.json()["detail"]
+
+
+async def test_data_of_a_line_input_sweep_has_both_planes(client: httpx.AsyncClient) -> None:
+    from mastwatch.rf import lines
+    from mastwatch.rf.touchstone import write_touchstone
+    from tests.dbfixtures import rlc_sweep
+
+    _, antenna = await site_and_antenna(client)
+    await client.put(
+        f"{API}/antennas/{antenna['id']}/feedline", json={"cable": "RG-58", "length_m": 20}
+    )
+    at_antenna = rlc_sweep(7.05e6, points=1601)
+    data = write_touchstone(
+        lines.embed(at_antenna, lines.Feedline(lines.CABLES["RG-58"], 20.0))
+    ).encode()
+    sweep = (await upload(client, antenna["id"], data, reference_plane="line_input")).json()
+    small = (
+        await client.get(f"{API}/sweeps/{sweep['id']}/data", params={"max_points": 120})
+    ).json()
+    assert small["feedpoint"] is not None and small["returned"] <= 130
+    # Both planes' minima survive decimation (the same indices serve both planes).
+    assert min(small["feedpoint"]["swr"]) == pytest.approx(float(at_antenna.swr.min()), rel=1e-9)
+    measured = read_sweep(data, "m.s1p")
+    assert min(small["measured"]["swr"]) == float(measured.swr.min())
