@@ -129,8 +129,8 @@ def test_detuned_element_is_not_mistaken_for_water(baseline: Sweep) -> None:
 @pytest.mark.parametrize(
     ("kind", "distance_m", "expected"),
     [
-        ("open", None, "open circuit"),
-        ("short", None, "short circuit"),
+        ("open", None, "open circuit about 30"),
+        ("short", None, "short circuit about 30"),
         ("open", 12.0, "open circuit about 12"),
         ("short", 21.5, "short circuit about 21"),
     ],
@@ -139,19 +139,19 @@ def test_open_and_short(
     baseline: Sweep, kind: str, distance_m: float | None, expected: str
 ) -> None:
     cur = synth(seed=7, damage=(LineBreak(kind, distance_m),))  # type: ignore[arg-type]
-    # The feedpoint view puts the break beyond the antenna end when it is on the line, so
-    # judge it as the keeper would without a feedline model: at the line input.
-    if distance_m is None:
-        v = verdict_for(cur, baseline)
-    else:
-        now, base = view(cur, NOW_AT), view(baseline, BASE_AT)
-        v = judge(
-            SweepView(now.metrics, NOW_AT, cur, "line_input", None),
-            SweepView(base.metrics, BASE_AT, baseline, "line_input", None),
-            bands=["40m"],
-            velocity_factor=FEEDLINE.cable.velocity_factor,
-        )
+    # |Γ| is judged at the de-embedded feedpoint (the line's loss taken out), the kind and
+    # the distance from the phase at the line input.
+    v = verdict_for(cur, baseline, velocity_factor=FEEDLINE.cable.velocity_factor)
     assert v.status == "fault"
+    assert v.reasons[0].startswith(expected), v.reasons
+    # Without the feedpoint view the line input alone tells the same.
+    now, base = view(cur, NOW_AT), view(baseline, BASE_AT)
+    v = judge(
+        SweepView(now.metrics, NOW_AT, cur, "line_input", None),
+        SweepView(base.metrics, BASE_AT, baseline, "line_input", None),
+        bands=["40m"],
+        velocity_factor=FEEDLINE.cable.velocity_factor,
+    )
     assert v.reasons[0].startswith(expected), v.reasons
 
 

@@ -466,29 +466,35 @@ class OpenShort:
         return self.delay_s * velocity_factor * 299_792_458.0 / 2.0
 
 
-def open_short_signature(sweep: Sweep, min_mag: float) -> OpenShort | None:
-    """An open or short circuit seen from the sweep's reference plane, or None.
+def open_short_signature(
+    sweep: Sweep, min_mag: float, phase_sweep: Sweep | None = None
+) -> OpenShort | None:
+    """An open or short circuit, or None.
 
-    |Γ| ≥ ``min_mag`` at every point. Which of the two: at the plane of the fault Γ is
-    +1 (open, 0°) or −1 (short, 180°); seen through a line the phase turns by −2βl,
+    |Γ| ≥ ``min_mag`` at every point of ``sweep`` (best the feedpoint view, where the
+    line's loss is taken out). Which of the two, and where, from the phase of
+    ``phase_sweep`` (the sweep as measured; default ``sweep``): at the fault Γ is +1
+    (open, 0°) or −1 (short, 180°); seen through a line the phase turns by −2βl,
     linearly in frequency. So the unwrapped phase is fitted by a straight line
     φ(f) = φ0 − 2π·f·τ: φ0 (the value extrapolated to 0 Hz) is the phase at the fault,
-    τ the round-trip delay to it (distance = τ·VF·c/2). At the feedpoint plane τ ≈ 0 and
-    φ0 is simply the phase. Skin-effect loss adds a √f phase term that moves φ0 by a
-    few degrees, far less than the 90° that separates the two answers.
+    τ the round-trip delay to it (distance = τ·VF·c/2). At the fault's own plane τ ≈ 0
+    and φ0 is simply the phase; seen from beyond it (a break mid-line viewed from the
+    de-embedded feedpoint) τ is negative. Skin-effect loss adds a √f phase term that
+    moves φ0 by a few degrees, far less than the 90° that separates the two answers.
     """
     mags = sweep.gamma_mag
     mn = float(np.min(mags))
     if mn < min_mag:
         return None
-    if not sweep.has_phase:
+    ps = phase_sweep if phase_sweep is not None else sweep
+    if not ps.has_phase:
         return OpenShort("open or short", mn, None, None)
-    f = sweep.freq_hz
-    phase = np.unwrap(np.angle(sweep.gamma))
+    f = ps.freq_hz
+    phase = np.unwrap(np.angle(ps.gamma))
     if f.size >= 3:
         fc, scale = float(np.mean(f)), float(np.ptp(f)) or 1.0
         slope, at_fc = np.polyfit((f - fc) / scale, phase, 1)
-        delay = max(0.0, -float(slope) / scale / (2 * math.pi))
+        delay = -float(slope) / scale / (2 * math.pi)
         phi0 = float(at_fc) + 2 * math.pi * delay * fc
     else:
         delay, phi0 = 0.0, float(np.mean(phase))
@@ -502,10 +508,15 @@ def detect_open_short(
     thresholds: Thresholds,
     *,
     baseline: Sweep | None = None,
+    phase_sweep: Sweep | None = None,
     velocity_factor: float | None = None,
 ) -> Finding | None:
-    """Fault finding for an open/short, unless the baseline already looked the same."""
-    sig = open_short_signature(sweep, thresholds.open_short_min_mag)
+    """Fault finding for an open/short, unless the baseline already looked the same.
+
+    ``phase_sweep`` is the sweep as measured at the line input (it places the fault
+    along the line when ``velocity_factor`` is known); see :func:`open_short_signature`.
+    """
+    sig = open_short_signature(sweep, thresholds.open_short_min_mag, phase_sweep)
     if sig is None:
         return None
     if baseline is not None and float(np.min(baseline.gamma_mag)) >= thresholds.open_short_min_mag:
@@ -742,8 +753,13 @@ def judge(
     view = fp if fp is not None else current.measured
     base_view = fp0 if fp0 is not None else (baseline.measured if baseline else None)
     if view is not None:
+        line_view = current.measured if current.plane == "line_input" else None
         os_finding = detect_open_short(
-            view, t_all, baseline=base_view, velocity_factor=velocity_factor if fp is None else None
+            view,
+            t_all,
+            baseline=base_view,
+            phase_sweep=line_view,
+            velocity_factor=velocity_factor if line_view is not None else None,
         )
         if os_finding is not None:
             findings.append(os_finding)
