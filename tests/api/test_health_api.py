@@ -208,3 +208,26 @@ async def test_board_is_one_cheap_query_path(client: httpx.AsyncClient, clean_db
     (centre,) = card["swr_center"]
     assert centre["band"] == "40m" and centre["swr_center"] > 1.2
     assert cards[empty["id"]]["status"] == "unknown" and cards[empty["id"]]["latest_sweep"] is None
+
+
+async def test_antenna_thresholds_change_the_stored_verdict(client: httpx.AsyncClient) -> None:
+    site = await make_site(client)
+    ant = await make_antenna(client, site["id"])
+    r = await client.patch(
+        f"{API}/antennas/{ant['id']}",
+        json={"thresholds": {"bands": {"40m": {"resonance_shift_q": 1}}}},
+    )
+    assert r.status_code == 422
+    assert "thresholds.bands.40m: unknown threshold 'resonance_shift_q'" in r.json()["detail"]
+    r = await client.patch(
+        f"{API}/antennas/{ant['id']}",
+        json={"thresholds": {"bands": {"40m": {"resonance_shift_watch_pct": 0.5}}}},
+    )
+    assert r.status_code == 200, r.text
+    first = await put_sweep(client, ant["id"], 7.10e6, "2025-04-02T10:00:00")
+    await client.put(f"{API}/antennas/{ant['id']}/baseline", json={"sweep_id": first["id"]})
+    # 60 kHz is 0.85 % of the centre: ok by default, watch with this antenna's 0.5 %.
+    s = await put_sweep(client, ant["id"], 7.04e6, "2025-06-02T10:00:00")
+    status, reasons = await sweep_status(client, s["id"])
+    assert status == "watch"
+    assert reasons[0].startswith("40m: resonance moved 60 kHz down")
