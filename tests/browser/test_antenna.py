@@ -58,8 +58,8 @@ def test_smith_chart_traces_and_hover_impedance(page: Any, page_log: PageLog, cl
     shot(page, "antenna")
 
     # Toggling an older sweep on from the history adds one trace.
-    older = sweeps[-1]
-    page.check(f'.history input[data-sweep-id="{older["id"]}"]')
+    off = page.locator(".history input[type=checkbox]:not(:checked)").first
+    off.check()
     page.wait_for_function("n => document.getElementById('smith-plot').data.length === n",
                            arg=len(shown) + 1)
     assert page_log.errors == []

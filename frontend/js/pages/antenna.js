@@ -7,7 +7,7 @@ import * as api from "../api.js";
 import { errorBox, field, fill, h, select } from "../dom.js";
 import * as fmt from "../format.js";
 import { bandsOf, planeArrays, reasonsOf, resonancesOf } from "../model.js";
-import { BASELINE_COLOUR, colourFor, plotBox } from "../plots/common.js";
+import { BASELINE_COLOUR, colourFor, loadPlotly, plotBox } from "../plots/common.js";
 import { drawDtf, dtfArrays, dtfCsv } from "../plots/dtf.js";
 import { drawRect, rectCsv } from "../plots/rect.js";
 import { drawSmith, smithCsv } from "../plots/smith.js";
@@ -17,8 +17,11 @@ import { badge } from "../verdict.js";
 import { matchPanel } from "./match.js";
 
 // Points per trace asked of the server: enough for a smooth curve, small on the wire
-// (the server's decimation keeps each minimum).
+// (the server's decimation keeps each minimum and the band edges). With many sweeps
+// overlaid each one needs fewer points: the lines are thin and the bytes add up.
 export const PLOT_POINTS = 501;
+export const OVERLAY_POINTS = 301;
+const MANY_SWEEPS = 4;
 
 function baselineIdOf(ant, health) {
   const b = (health && (health.baseline ?? null)) ?? ant.baseline ?? null;
@@ -45,6 +48,8 @@ function eventsList(events) {
 }
 
 export async function render(root, [idText], query, isStale) {
+  // plotly.js (the largest download) loads while the API calls run, not after them.
+  loadPlotly().catch(() => {});
   const antennaId = Number(idText);
   const ant = await api.antenna(antennaId);
   const [site, list, health, antEvents] = await Promise.all([
@@ -65,11 +70,17 @@ export async function render(root, [idText], query, isStale) {
     plane: ant.feedline ? "feedpoint" : "measured",
     selected: new Set([latest?.id, baselineId, Number(query.get("sweep")) || null].filter(Boolean)),
   };
+  // ?show=all or ?show=12,15,19 overlays those sweeps from the start.
+  const show = query.get("show");
+  if (show === "all") for (const s of list) state.selected.add(s.id);
+  else if (show) for (const id of show.split(",").map(Number).filter(Boolean)) state.selected.add(id);
   const colourOf = new Map(list.map((s, i) => [s.id, s.id === baselineId ? BASELINE_COLOUR : colourFor(i)]));
   const dataCache = new Map();
   const sweepCache = new Map();
   const getData = (id) => {
-    if (!dataCache.has(id)) dataCache.set(id, api.sweepData(id, PLOT_POINTS));
+    // A sweep already fetched at a finer resolution is kept as it is.
+    const points = state.selected.size >= MANY_SWEEPS ? OVERLAY_POINTS : PLOT_POINTS;
+    if (!dataCache.has(id)) dataCache.set(id, api.sweepData(id, points));
     return dataCache.get(id);
   };
   const getSweep = (id) => {
@@ -141,14 +152,15 @@ export async function render(root, [idText], query, isStale) {
     const bands = bandsOf(mainSweep, metricPlane);
     const resonances = resonancesOf(mainSweep, metricPlane);
     const opts = { bands, resonances };
+    // The Smith chart first (what people look at), then the rectangular plots.
+    await drawSmith(smith.plot, shown, { ...opts, filename: `antenna-${antennaId}-smith` });
+    smith.plot.dataset.drawnMs = String(performance.now()); // read by tests/bench/bench_frontend.py
     await Promise.all([
-      drawSmith(smith.plot, shown, { ...opts, filename: `antenna-${antennaId}-smith` }),
       drawRect(swr.plot, "swr", shown, { ...opts, onPick: match.pick }),
       drawRect(rl.plot, "rl", shown, { ...opts, onPick: match.pick }),
       drawRect(rx.plot, "rx", shown, { ...opts, onPick: match.pick }),
     ]);
     smith.plot.dataset.traces = String(shown.length + 2);
-    smith.plot.dataset.drawn = String(Date.now());
   }
   planeSel.addEventListener("change", () => { state.plane = planeSel.value; draw().catch(showError); });
 

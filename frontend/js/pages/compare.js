@@ -6,7 +6,7 @@ import * as api from "../api.js";
 import { field, fill, h, select } from "../dom.js";
 import * as fmt from "../format.js";
 import { bandRows, bandsOf, bestPlane, planeArrays } from "../model.js";
-import { colourFor, downloadText, plotBox, toCsv } from "../plots/common.js";
+import { colourFor, downloadText, loadPlotly, plotBox, toCsv } from "../plots/common.js";
 import { drawRect, rectCsv } from "../plots/rect.js";
 import { drawSmith, smithCsv } from "../plots/smith.js";
 import { badge } from "../verdict.js";
@@ -68,6 +68,8 @@ function diffTable(a, b, plane) {
 }
 
 export async function render(root, _params, query) {
+  // plotly.js (the largest download) loads while the API calls run, not after them.
+  loadPlotly().catch(() => {});
   const [sites, antennas] = await Promise.all([api.sites(), api.antennas()]);
   const siteName = new Map(sites.map((s) => [s.id, s.name]));
   const antennaId = Number(query.get("antenna")) || antennas[0]?.id;

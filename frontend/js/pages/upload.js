@@ -9,6 +9,7 @@ import * as api from "../api.js";
 import { errorBox, field, fill, h, select } from "../dom.js";
 import * as fmt from "../format.js";
 import { bandRows, planeArrays, resonancesOf } from "../model.js";
+import { loadPlotly } from "../plots/common.js";
 import { drawSmith } from "../plots/smith.js";
 import * as offline from "../offline.js";
 
@@ -187,6 +188,7 @@ export async function render(root, _params, query) {
   };
 
   function addFiles(files) {
+    loadPlotly().catch(() => {});
     for (const file of files) {
       const item = new FileItem(file, ctx);
       ctx.items.add(item);
