@@ -105,6 +105,13 @@ def test_usable_fraction_bandwidth_and_min_swr() -> None:
     assert texts(replace(BASE, min_swr=1.8)) == ["40m: min SWR 1.8, was 1.2"]
 
 
+def test_usable_share_needs_the_same_coverage() -> None:
+    # A sweep that covers only 70 % of the band can use at most 70 % of it.
+    c = compare_band(replace(BASE, coverage=0.7, usable_fraction_2=0.7), BASE, T, since=SINCE)
+    assert c.status == "ok"
+    assert [f.code for f in c.findings] == ["usable_fraction"]
+
+
 def test_band_not_covered_is_not_compared() -> None:
     c = compare_band(replace(BASE, coverage=0.3, swr_center=None), BASE, T, since=SINCE)
     assert c.status == "ok"

@@ -389,7 +389,14 @@ def compare_band(
         if mn is not None and mn0 is not None and mn - mn0 > t.min_swr_rise_watch:
             add("watch", "min_swr", f"min SWR {format_swr(mn)}, was {format_swr(mn0)}")
 
-        if uf is not None and uf0 is not None:
+        same_coverage = abs((current.coverage or 0.0) - (baseline.coverage or 0.0)) <= 0.05
+        if uf is not None and uf0 is not None and not same_coverage:
+            add(
+                "info",
+                "usable_fraction",
+                "usable share not compared: the two sweeps cover different parts of the band",
+            )
+        elif uf is not None and uf0 is not None:
             drop = uf0 - uf
             text = f"usable at SWR ≤ 2 over {100 * uf:.0f} % of the band, was {100 * uf0:.0f} %"
             if drop > t.usable_drop_fault:
