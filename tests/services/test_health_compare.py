@@ -123,3 +123,11 @@ def test_formats() -> None:
     assert format_hz(7.1e6) == "7.100 MHz"
     assert format_swr(None) == "unknown" and format_swr(150.0) == "over 99"
     assert date(2025, 4, 2).isoformat() in SINCE
+
+
+def test_swr_only_sweep_does_not_lose_its_resonance() -> None:
+    # An SWR-only file has no resonance (no phase): that is not a lost resonance.
+    cur = replace(BASE, resonance_hz=None, resonance_kind=None)
+    c = compare_band(cur, BASE, T, since=SINCE, has_phase=False)
+    assert c.status == "ok"
+    assert [f.code for f in c.findings] == ["resonance_shift"]

@@ -310,6 +310,7 @@ def compare_band(
     current_sweep: Sweep | None = None,
     baseline_sweep: Sweep | None = None,
     current_resonances: Sequence[tuple[float, str | None]] = (),
+    has_phase: bool = True,
 ) -> BandComparison:
     """Compare one band of a sweep with the same band of the baseline.
 
@@ -355,8 +356,10 @@ def compare_band(
             "not compared: the sweep or the baseline covers less than half of the band",
         )
     else:
-        # Resonance shift, as a share of the band centre.
-        if res is not None and res0 is not None:
+        # Resonance shift, as a share of the band centre (needs the phase of both sweeps).
+        if not has_phase:
+            add("info", "resonance_shift", "resonance not compared: a sweep has SWR only")
+        elif res is not None and res0 is not None:
             shift = res - res0
             pct = 100.0 * shift / center
             level: Level | None = None
@@ -817,6 +820,7 @@ def judge(
             current_sweep=fp,
             baseline_sweep=fp0,
             current_resonances=resonance_list(current.metrics),
+            has_phase=all(v.measured is None or v.measured.has_phase for v in (current, baseline)),
         )
         comparisons.append(comp)
         findings.extend(f for f in comp.findings if f.level != "info")
