@@ -240,15 +240,17 @@ def _trend_run(app: FastAPI, engine: Engine) -> dict[str, float]:
         return go
 
     client = httpx.AsyncClient(transport=httpx.ASGITransport(app=app), base_url="http://bench")
+    loop = asyncio.new_event_loop()
 
     def endpoint(n: int) -> Callable[[], object]:
         def go() -> object:
-            r = asyncio.run(
+            r = loop.run_until_complete(
                 client.get(
                     f"/api/v1/antennas/{ids[n]}/trend", params={"band": "40m", "metric": "min_swr"}
                 )
             )
-            assert r.status_code == 200 and len(r.json()["points"]) == n
+            # Count the points without parsing: the client's JSON decoding is not the server's.
+            assert r.status_code == 200 and r.content.count(b'"sweep_id"') == n
             return r
 
         return go
@@ -258,6 +260,8 @@ def _trend_run(app: FastAPI, engine: Engine) -> dict[str, float]:
         out[f"service_{n}"] = _median(service(n))
         out[f"raw_{n}"] = _median(raw(n))
         out[f"endpoint_{n}"] = _median(endpoint(n), repeats=5)
+    loop.run_until_complete(client.aclose())
+    loop.close()
     return out
 
 

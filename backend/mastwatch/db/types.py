@@ -28,6 +28,21 @@ class UTCDateTime(TypeDecorator[datetime]):
         # SQLite stores text: keep it naive UTC so strings sort and compare in time order.
         return value.replace(tzinfo=None) if dialect.name == "sqlite" else value
 
+    def result_processor(self, dialect: Dialect, coltype: Any) -> Any:
+        if dialect.name != "sqlite":
+            return super().result_processor(dialect, coltype)
+
+        # SQLite returns text such as "2025-04-02 10:00:00.000000": datetime.fromisoformat
+        # (C code) reads it several times faster than the generic regex path, which
+        # matters for trends over thousands of rows.
+        def process(value: Any) -> datetime | None:
+            if value is None:
+                return None
+            parsed = datetime.fromisoformat(value) if isinstance(value, str) else value
+            return parsed.replace(tzinfo=UTC) if parsed.tzinfo is None else parsed.astimezone(UTC)
+
+        return process
+
     def process_result_value(self, value: datetime | None, dialect: Dialect) -> datetime | None:
         if value is None:
             return None

@@ -53,7 +53,7 @@ def trend_points(
         query = query.where(SweepMetrics.measured_at <= until)
     query = query.order_by(SweepMetrics.measured_at, SweepMetrics.sweep_id)
     # Core execution on the session's connection: plain rows, no ORM bookkeeping per row.
-    rows = session.connection().execute(query)
+    rows = session.connection().execute(query).all()
     return [{"sweep_id": sid, "measured_at": at, "value": value} for sid, at, value in rows]
 
 
