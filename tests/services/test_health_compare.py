@@ -131,3 +131,16 @@ def test_swr_only_sweep_does_not_lose_its_resonance() -> None:
     c = compare_band(cur, BASE, T, since=SINCE, has_phase=False)
     assert c.status == "ok"
     assert [f.code for f in c.findings] == ["resonance_shift"]
+
+
+def test_the_judge_stays_pure() -> None:
+    # health.py and changepoint.py take plain inputs: no database, web or HTTP imports.
+    import subprocess
+    import sys
+
+    code = (
+        "import sys, mastwatch.services.health, mastwatch.services.changepoint; "
+        "print(','.join(m for m in ('sqlalchemy', 'fastapi', 'httpx') if m in sys.modules))"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == ""
