@@ -49,3 +49,31 @@ def test_slow_drift_becomes_a_watch_reason_before_any_threshold(session: Session
     health = health_records.antenna_health(session, ant.id)
     band = health["verdict"]["bands"][0]
     assert band["min_swr_change"] < 0.5
+
+
+def test_rejudge_antenna_restores_stored_verdicts(session: Session) -> None:
+    site = sites.create_site(session, {"name": "Q0HRS hut", "itu_region": 1, "timezone": "UTC"})
+    ant = antennas.create_antenna(
+        session, {"site_id": site.id, "name": "40m dipole", "kind": "dipole", "bands": ["40m"]}
+    )
+    assert health_records.rejudge_antenna(session, ant.id) == 0  # no baseline: nothing to do
+    first = ingest_sweep(
+        session,
+        ant.id,
+        rlc_touchstone(7.1e6),
+        "a.s1p",
+        UploadMeta(measured_at=datetime(2025, 1, 1, 10)),
+    ).sweep
+    health_records.set_baseline(session, ant.id, first.id)
+    moved = ingest_sweep(
+        session,
+        ant.id,
+        rlc_touchstone(6.92e6),
+        "b.s1p",
+        UploadMeta(measured_at=datetime(2025, 3, 1, 10)),
+    ).sweep
+    moved.status, moved.status_reasons = None, []
+    session.commit()
+    assert health_records.rejudge_antenna(session, ant.id) == 1
+    session.refresh(moved)
+    assert moved.status == "watch"

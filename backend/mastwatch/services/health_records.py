@@ -431,6 +431,20 @@ def rejudge_since(session: Session, antenna: Antenna, base: SweepRow) -> None:
         session.flush()
 
 
+def rejudge_antenna(session: Session, antenna_id: int) -> int:
+    """Judge the antenna's sweeps since its baseline again (after a recompute). Commits."""
+    antenna = session.get(Antenna, antenna_id)
+    if antenna is None:
+        raise not_found("antenna", antenna_id)
+    baseline = current_baseline(session, antenna.id)
+    if baseline is None:
+        return 0
+    base = with_arrays(session, baseline.sweep_id)
+    rejudge_since(session, antenna, base)
+    session.commit()
+    return 1
+
+
 # -- antenna health -----------------------------------------------------------------------
 
 
