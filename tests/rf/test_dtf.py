@@ -8,7 +8,7 @@ import warnings
 import numpy as np
 import pytest
 import skrf
-from hypothesis import given, settings
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 from mastwatch.rf.dtf import distance_to_fault
@@ -177,6 +177,7 @@ def test_decimation_keeps_every_peak() -> None:
 
 @settings(max_examples=60, deadline=None)
 @given(frac=st.floats(0.0, 0.98), rho=st.floats(0.05, 1.0), vf=st.floats(0.6, 0.95))
+@example(frac=0.0, rho=0.7641239657521659, vf=0.75)  # a reflection at the reference plane
 def test_any_single_reflection_is_placed_and_scaled(frac: float, rho: float, vf: float) -> None:
     f = F401
     d0 = frac * vf * C0 * 400 / (2 * 400e6)  # a fraction of the unambiguous range

@@ -41,7 +41,9 @@ def sweeps(draw: st.DrawFn) -> Sweep:
 @given(sweeps())
 def test_metric_invariants(s: Sweep) -> None:
     m = compute_metrics(s, PLAN)
-    assert m.min_swr <= float(np.min(s.swr)) * (1 + 1e-12)
+    # 1e-9 absolute: the closed-form segment minimum may differ from a sampled exact
+    # match by round-off (|Γ| ~ 1e-12 where a sample is 0); physically nothing.
+    assert m.min_swr <= float(np.min(s.swr)) * (1 + 1e-12) + 1e-9
     assert s.f_start_hz <= m.min_swr_hz <= s.f_stop_hz
     at_min = value_at(s, m.min_swr_hz).swr
     assert np.isclose(at_min, m.min_swr, rtol=1e-6) or (at_min > 1e6 and m.min_swr > 1e6)

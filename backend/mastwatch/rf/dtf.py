@@ -269,7 +269,9 @@ def distance_to_fault(
     peaks = []
     for i in idx - 1:
         pos, value = _refine(mag, int(i))
-        d = (pos % m) * dd
+        # A reflection at the reference plane refines to a hair below sample 0: it is at
+        # d = 0, not at the far end of the range (which `pos % m` would make of it).
+        d = max(pos, 0.0) * dd
         with np.errstate(divide="ignore"):
             rl = float(-20.0 * np.log10(value)) if value > 0 else math.inf
         peaks.append(DtfPeak(float(d), value, rl))
