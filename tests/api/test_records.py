@@ -151,3 +151,15 @@ async def test_openapi_docs_are_served(client: httpx.AsyncClient) -> None:
     assert r.status_code == 200 and "swagger" in r.text.lower()
     spec = (await client.get("/api/openapi.json")).json()
     assert "/api/v1/antennas/{antenna_id}/sweeps" in spec["paths"]
+
+
+async def test_patch_with_null_keeps_required_fields(client: httpx.AsyncClient) -> None:
+    site = await make_site(client, name="Keep", locator="JO62")
+    r = await client.patch(f"{API}/sites/{site['id']}", json={"name": None, "locator": None})
+    assert r.status_code == 200
+    assert r.json()["name"] == "Keep" and r.json()["locator"] is None
+    antenna = await make_antenna(client, site["id"], installed_on="2024-05-01")
+    r = await client.patch(
+        f"{API}/antennas/{antenna['id']}", json={"name": None, "installed_on": None}
+    )
+    assert r.json()["name"] == "40m dipole" and r.json()["installed_on"] is None

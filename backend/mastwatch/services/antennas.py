@@ -77,8 +77,16 @@ def create_antenna(session: Session, data: dict[str, Any]) -> Antenna:
     return antenna
 
 
+REQUIRED_ANTENNA_FIELDS = ("site_id", "name", "kind", "bands", "notes")
+
+
 def update_antenna(session: Session, antenna_id: int, changes: dict[str, Any]) -> Antenna:
     antenna = get_antenna(session, antenna_id)
+    # null for a field that must have a value means "leave it" (installed_on and
+    # thresholds can be cleared with null).
+    changes = {
+        k: v for k, v in changes.items() if v is not None or k not in REQUIRED_ANTENNA_FIELDS
+    }
     _validate(session, changes, changes.get("site_id") or antenna.site_id)
     if "site_id" in changes and changes["site_id"] != antenna.site_id and antenna.bands:
         # Band names are per region: re-check the kept bands against the new site.

@@ -54,8 +54,13 @@ def create_site(
     return site
 
 
+REQUIRED_SITE_FIELDS = ("name", "itu_region", "timezone", "notes")
+
+
 def update_site(session: Session, site_id: int, changes: dict[str, Any]) -> Site:
     site = get_site(session, site_id)
+    # null for a field that must have a value means "leave it" (only locator can be cleared).
+    changes = {k: v for k, v in changes.items() if v is not None or k not in REQUIRED_SITE_FIELDS}
     _check(changes)
     for key, value in changes.items():
         setattr(site, key, value)
