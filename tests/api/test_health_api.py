@@ -68,6 +68,7 @@ async def test_baseline_health_and_stored_verdicts(client: httpx.AsyncClient) ->
     )
     h = (await client.get(f"{API}/antennas/{ant['id']}/health")).json()
     assert h["status"] == "watch" and h["reasons"] == reasons
+    assert h["cautions"] == []  # cautions come with a fault (see the site check test)
     assert h["sweep"]["sweep_id"] == moved["id"]
     assert h["baseline"]["sweep_id"] == first["id"]
     assert h["baseline"]["reason"] == "after installation"
@@ -155,6 +156,8 @@ async def test_site_check_after_a_storm(client: httpx.AsyncClient) -> None:
     assert rows[late["id"]]["reasons"] == ["not swept since the storm of 2025-10-24 yet"]
     assert any("power lines" in c for c in body["cautions"])
     assert any("climb alone" in c for c in body["cautions"])
+    h = (await client.get(f"{API}/antennas/{hit['id']}/health")).json()
+    assert h["status"] == "fault" and h["cautions"] == body["cautions"]
 
     # The same by date (midnight in the site's zone), and bad input.
     r = await client.get(f"{API}/sites/{site['id']}/check", params={"since": "2025-10-24"})

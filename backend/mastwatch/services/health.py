@@ -40,6 +40,18 @@ Level = Literal["info", "watch", "fault", "unknown"]
 _RANK: dict[str, int] = {"info": 0, "ok": 0, "watch": 1, "fault": 2}
 _BY_RANK: tuple[Status, ...] = ("ok", "watch", "fault")
 
+# The usual cautions wherever the product sends someone to go and look (DESIGN.md, Safety).
+SAFETY_CAUTIONS: tuple[str, ...] = (
+    "Never climb alone, and never in a storm, high wind or lightning: wait until the "
+    "weather has passed.",
+    "Stay well clear of power lines; treat any fallen wire as live and call the utility.",
+    "When transmitting to test an antenna, keep everyone outside the RF exposure limits "
+    "and follow your licence's rules.",
+    "Keep lightning protection and grounding in place; do not disconnect feedlines while "
+    "a storm is near.",
+    "Follow local codes and licensed practice; when in doubt, ask a qualified person.",
+)
+
 # A band is compared only where the sweep covers at least this share of it.
 MIN_BAND_COVERAGE = 0.5
 # A resonance that left the band is still matched within this share of the band centre.

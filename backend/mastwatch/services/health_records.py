@@ -39,7 +39,15 @@ from mastwatch.rf.errors import AnalysisError
 from mastwatch.services import codec
 from mastwatch.services.changepoint import MIN_POINTS, drift_reason
 from mastwatch.services.errors import Invalid, not_found
-from mastwatch.services.health import DtfTrace, Finding, SweepView, Verdict, format_hz, judge
+from mastwatch.services.health import (
+    SAFETY_CAUTIONS,
+    DtfTrace,
+    Finding,
+    SweepView,
+    Verdict,
+    format_hz,
+    judge,
+)
 from mastwatch.services.thresholds import thresholds_for
 
 log = logging.getLogger(__name__)
@@ -504,4 +512,8 @@ def antenna_health(session: Session, antenna_id: int) -> dict[str, Any]:
             for b in baseline_history(session, antenna.id)
         ],
         "history": history,
+        # A fault sends someone to go and look: the usual cautions come with it.
+        "cautions": list(SAFETY_CAUTIONS)
+        if verdict is not None and verdict.status == "fault"
+        else [],
     }

@@ -41,6 +41,7 @@ from sqlalchemy.orm import Session
 from mastwatch.db.models import Antenna, Notification
 from mastwatch.db.models import Sweep as SweepRow
 from mastwatch.db.types import utcnow
+from mastwatch.services.health import SAFETY_CAUTIONS
 from mastwatch.settings import Settings
 
 log = logging.getLogger(__name__)
@@ -49,11 +50,7 @@ SIGNATURE_HEADER = "X-Mastwatch-Signature"
 CHANNELS = ("webhook", "email")
 MAX_ROUNDS = 8
 LEASE = timedelta(minutes=5)
-SAFETY_NOTE = (
-    "Before going to look: never climb alone or in a storm, stay clear of power lines, "
-    "keep within RF exposure limits when transmitting, keep lightning protection in place, "
-    "and follow local codes and licensed practice."
-)
+SAFETY_NOTE = " ".join(SAFETY_CAUTIONS)
 
 
 class DeliveryError(Exception):

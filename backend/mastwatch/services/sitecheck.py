@@ -25,7 +25,7 @@ from sqlalchemy.orm import Session
 from mastwatch.db.models import Antenna, Event, Site
 from mastwatch.db.models import Sweep as SweepRow
 from mastwatch.services.errors import Invalid, not_found
-from mastwatch.services.health import Verdict
+from mastwatch.services.health import SAFETY_CAUTIONS, Verdict
 from mastwatch.services.health_records import (
     current_baseline,
     latest_sweep,
@@ -33,17 +33,6 @@ from mastwatch.services.health_records import (
     with_arrays,
 )
 from mastwatch.services.timeutil import to_utc
-
-SAFETY_CAUTIONS: tuple[str, ...] = (
-    "Never climb alone, and never in a storm, high wind or lightning: wait until the "
-    "weather has passed.",
-    "Stay well clear of power lines; treat any fallen wire as live and call the utility.",
-    "When transmitting to test an antenna, keep everyone outside the RF exposure limits "
-    "and follow your licence's rules.",
-    "Keep lightning protection and grounding in place; do not disconnect feedlines while "
-    "a storm is near.",
-    "Follow local codes and licensed practice; when in doubt, ask a qualified person.",
-)
 
 _RANK = {"ok": 0, "unknown": 1, "watch": 2, "fault": 3}
 _BAD = ("watch", "fault")
