@@ -48,3 +48,33 @@ def test_recompute_restores_tampered_rows(session: Session) -> None:
     assert [r[1:3] for r in after] == [r[1:3] for r in good]
     for a, b in zip(after, good, strict=True):
         assert a[3:] == pytest.approx(b[3:])
+
+
+def test_rejudge_after_recompute_restores_verdicts(session: Session) -> None:
+    from mastwatch.db.models import Sweep as SweepRow
+    from mastwatch.services import health_records
+    from mastwatch.services.recompute import rejudge_all
+
+    site = sites.create_site(session, {"name": "s", "itu_region": 1})
+    antenna = antennas.create_antenna(
+        session, {"site_id": site.id, "name": "a", "kind": "dipole", "bands": ["40m"]}
+    )
+    rows = [
+        ingest.ingest_sweep(
+            session,
+            antenna.id,
+            rlc_touchstone(f0),
+            f"s{i}.s1p",
+            ingest.UploadMeta(measured_at=datetime(2025, 1 + i, 1, tzinfo=UTC)),
+        ).sweep
+        for i, f0 in enumerate((7.10e6, 7.10e6, 6.95e6))
+    ]
+    health_records.set_baseline(session, antenna.id, rows[0].id, "first")
+    want = [session.get(SweepRow, r.id).status for r in rows]
+    assert want[0] == "ok" and want[2] in ("watch", "fault")  # a 150 kHz shift is flagged
+    session.execute(update(SweepRow).values(status=None, status_reasons=[]))
+    session.commit()
+    recompute_all(session)
+    assert rejudge_all(session) == 1
+    session.expire_all()
+    assert [session.get(SweepRow, r.id).status for r in rows] == want

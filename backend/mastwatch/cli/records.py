@@ -136,7 +136,7 @@ def recompute(
 
     from mastwatch.db.engine import make_engine, make_sessionmaker
     from mastwatch.db.migrate import DatabaseNotCurrent, check_current
-    from mastwatch.services.recompute import count_sweeps, recompute_all
+    from mastwatch.services.recompute import count_sweeps, recompute_all, rejudge_all
 
     settings = _settings()
     engine = make_engine(settings.database_url)
@@ -158,9 +158,10 @@ def recompute(
                 done = recompute_all(
                     session, batch_size=batch_size, progress=lambda n: progress.advance(task, n)
                 )
+            judged = rejudge_all(session)
     finally:
         engine.dispose()
-    typer.echo(f"recomputed {done} sweep(s)")
+    typer.echo(f"recomputed {done} sweep(s); verdicts judged again for {judged} antenna(s)")
 
 
 def create_demo_database(data_dir: Path) -> str:

@@ -4,10 +4,13 @@ Sweeps are read in batches by id (arrays undeferred for that batch only); for ea
 the feedpoint view is redone from the measured Γ and the sweep's own feedline
 snapshot, the metrics rows are replaced and the summary columns updated. Each batch
 is one transaction, so an interrupted run leaves every sweep either old or new.
+Afterwards :func:`rejudge_all` lets the health service judge the sweeps again.
 """
 
 from __future__ import annotations
 
+import importlib
+import importlib.util
 from collections.abc import Callable
 
 from sqlalchemy import delete, func, insert, select
@@ -21,6 +24,7 @@ from mastwatch.services.antennas import feedline_from_snapshot
 from mastwatch.services.ingest import METRICS_TABLE, metrics_rows
 
 DEFAULT_BATCH = 100
+HEALTH_RECORDS_MODULE = "mastwatch.services.health_records"
 
 
 def count_sweeps(session: Session) -> int:
@@ -76,3 +80,17 @@ def recompute_all(
         done += len(rows)
         if progress is not None:
             progress(len(rows))
+
+
+def rejudge_all(session: Session) -> int:
+    """Judge every antenna's sweeps again against its baseline (issue 5's verdicts), since
+    they were computed from the metrics just replaced. Returns the antennas re-judged."""
+    if importlib.util.find_spec(HEALTH_RECORDS_MODULE) is None:
+        return 0
+    rejudge = getattr(importlib.import_module(HEALTH_RECORDS_MODULE), "rejudge_antenna", None)
+    if rejudge is None:
+        return 0
+    antenna_ids = session.scalars(
+        select(SweepRow.antenna_id).distinct().order_by(SweepRow.antenna_id)
+    )
+    return sum(int(rejudge(session, antenna_id)) for antenna_id in list(antenna_ids))
