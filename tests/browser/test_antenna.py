@@ -2,9 +2,10 @@
 
 from __future__ import annotations
 
+import math
 from typing import Any
 
-from tests.browser.conftest import Club, PageLog, shot, wait_ready
+from tests.browser.conftest import ARTIFACTS, Club, PageLog, shot, wait_ready
 
 PLOT_POINTS = 501  # frontend/js/pages/antenna.js asks the server for this many points
 
@@ -86,4 +87,30 @@ def test_rectangular_and_trend_plots_are_drawn(page: Any, page_log: PageLog, clu
     page.wait_for_timeout(300)
     assert page.evaluate("document.documentElement.scrollWidth") <= 390
     shot(page, "antenna-phone")
+    assert page_log.errors == []
+
+
+def test_distance_to_fault_against_baseline_with_cautions(page: Any, page_log: PageLog,
+                                                          club: Club, live_server: Any) -> None:
+    # The demo's 70 cm collinear: 27 MHz wide sweeps and a feedline on record, as DTF needs.
+    ant = next(a for a in club.antennas if a["name"] == "70 cm repeater collinear")
+    latest = club.sweeps[ant["id"]][0]
+    _open(page, ant["id"])
+    page.wait_for_function("document.querySelector('#dtf .plot')?.data?.length > 0")
+    names = page.evaluate("document.querySelector('#dtf .plot').data.map(t => t.name)")
+    assert "this sweep" in names
+    health = live_server.api.get(f"/antennas/{ant['id']}/health").json()
+    if health.get("baseline") and health["baseline"]["sweep_id"] != latest["id"]:
+        assert "baseline" in names
+    # The trace is the API's reflection in dB, point for point.
+    api = live_server.api.get(f"/sweeps/{latest['id']}/dtf").json()
+    y = page.evaluate("document.querySelector('#dtf .plot').data"
+                      ".find(t => t.name === 'this sweep').y")
+    k = len(y) // 2
+    assert abs(y[k] - 20 * math.log10(api["reflection"][k])) < 1e-9
+    # The cautions sit beside the result.
+    assert page.locator("#dtf .caution").is_visible()
+    assert "power lines" in page.locator("#dtf .caution").inner_text()
+    shot(page, "antenna-dtf")
+    page.locator("#dtf").screenshot(path=str(ARTIFACTS / "antenna-dtf-detail.png"))
     assert page_log.errors == []

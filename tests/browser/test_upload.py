@@ -93,3 +93,28 @@ def test_bad_file_shows_error_with_line(page: Any, page_log: PageLog, club: Club
     # The 422 of the preview is the only failed request, and it is the expected one.
     assert [f for f in page_log.failed if "/analyze" not in f] == []
     assert all("422" in f for f in page_log.failed)
+
+
+def test_offline_upload_waits_on_the_device_then_sends(page: Any, context: Any, page_log: PageLog,
+                                                       club: Club, live_server: Any) -> None:
+    ant = next(a for a in club.antennas if a["name"] == "2 m j-pole (link)")
+    _open_upload(page, ant["id"])
+    data = touchstone(145.1e6, r_ohm=52.0, q=15.0, points=201, comment="sent later")
+    card = _drop(page, "hilltop-offline.s1p", data)
+    card.locator(".file-state.previewed").wait_for()
+    context.set_offline(True)
+    card.locator("button", has_text="Save").click()
+    card.locator(".file-state", has_text="kept on this device").wait_for()
+    pending = page.locator(".notice", has_text="waiting on this device")
+    pending.wait_for()
+    shot(page, "upload-offline")
+    before = {s["sha256"] for s in live_server.api.get(
+        f"/antennas/{ant['id']}/sweeps", params={"limit": 500}).json()["items"]}
+    context.set_offline(False)
+    pending.locator("button", has_text="Send pending").click()
+    pending.wait_for(state="hidden")
+    after = live_server.api.get(f"/antennas/{ant['id']}/sweeps", params={"limit": 500}).json()
+    new = [s for s in after["items"] if s["sha256"] not in before]
+    assert [s["filename"] for s in new] == ["hilltop-offline.s1p"]
+    # The only errors are the refused request while offline.
+    assert all("ERR_INTERNET_DISCONNECTED" in e for e in page_log.errors), page_log.errors

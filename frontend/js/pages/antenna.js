@@ -41,6 +41,11 @@ function feedlineText(f) {
   return parts.join(", ");
 }
 
+/** The five strongest DTF peaks, nearest first. */
+function strongest(peaks) {
+  return [...peaks].sort((a, b) => b.reflection - a.reflection).slice(0, 5).sort((a, b) => a.distance_m - b.distance_m);
+}
+
 function eventsList(events) {
   if (!events.length) return h("p", { class: "muted" }, "No events recorded.");
   return h("ul", { class: "reasons events" }, events.map((e) => h("li", {},
@@ -224,10 +229,16 @@ export async function render(root, [idText], query, isStale) {
   metricSel.addEventListener("change", () => drawTrendNow().catch(showError));
 
   // -- distance to fault ---------------------------------------------------------------
-  // The transform needs a wide sweep to place a fault (resolution ≈ VF·c/(2·span)): it is
-  // drawn at once for sweeps of DTF_AUTO_SPAN_HZ or more, and on request for narrower
-  // ones (the server then says why it cannot, if it cannot).
-  const DTF_AUTO_SPAN_HZ = 10e6;
+  // The transform places a fault only on a wide enough sweep: mastwatch.rf.dtf wants a
+  // resolution cell VF·c/(2·span) of at most 10 m, 32 points or more, the phase, and a
+  // velocity factor (from the feedline on record). Sweeps that pass are drawn at once;
+  // for others the page says why and offers to ask the server anyway.
+  const C0 = 299792458;
+  const dtfCell = (s) => {
+    const vf = s?.feedline_snapshot?.velocity_factor;
+    return vf ? (vf * C0) / (2 * (s.f_stop_hz - s.f_start_hz)) : null;
+  };
+  const dtfPossible = (s) => Boolean(s && s.has_phase && s.points >= 32 && dtfCell(s) !== null && dtfCell(s) <= 10);
   let dtfNow = null, dtfBase = null;
   const dtfBox = plotBox("Distance to fault", "small", `antenna-${antennaId}-dtf.csv`, () => (dtfNow ? dtfCsv(dtfNow, dtfBase) : ""));
   dtfBox.box.classList.add("hidden");
@@ -235,15 +246,17 @@ export async function render(root, [idText], query, isStale) {
   async function drawDtfNow() {
     try {
       const cur = await api.dtf(latest.id);
-      const wide = (s) => s && s.f_stop_hz - s.f_start_hz >= DTF_AUTO_SPAN_HZ;
-      const base = baselineId && baselineId !== latest.id && wide(baselineSweep)
+      const base = baselineId && baselineId !== latest.id && dtfPossible(baselineSweep)
         ? await api.dtf(baselineId).catch(() => null) : null;
-      dtfNow = dtfArrays(cur);
-      dtfBase = base ? dtfArrays(base) : null;
+      // Show the line and a little beyond its far end (where an open or a load shows).
+      const length = latest.feedline_snapshot?.length_m;
+      const maxM = length ? 1.5 * length + 5 : Infinity;
+      dtfNow = dtfArrays(cur, maxM);
+      dtfBase = base ? dtfArrays(base, maxM) : null;
       dtfBox.box.classList.remove("hidden");
-      await drawDtf(dtfBox.plot, dtfNow, dtfBase, { filename: `antenna-${antennaId}-dtf` });
+      await drawDtf(dtfBox.plot, dtfNow, dtfBase, { filename: `antenna-${antennaId}-dtf`, lineEndM: length ?? null });
       fill(dtfNote, `Latest sweep${dtfBase ? " against the baseline's" : ""}; resolution about ${fmt.num(dtfNow.resolution, 2, "m")}. `,
-        dtfNow.peaks.length ? `Reflections at ${dtfNow.peaks.map((p) => fmt.num(p.distance_m, 1, "m")).join(", ")}. ` : "No reflection above the threshold. ",
+        dtfNow.peaks.length ? `Strongest reflections at ${strongest(dtfNow.peaks).map((p) => fmt.num(p.distance_m, 1, "m")).join(", ")}. ` : "No reflection above the threshold. ",
         ...dtfNow.notes.map((n) => h("span", {}, `${n} `)));
     } catch (err) {
       dtfBox.box.classList.add("hidden");
@@ -253,9 +266,12 @@ export async function render(root, [idText], query, isStale) {
   async function setupDtf() {
     if (!latest) { dtfNote.textContent = "No sweep yet."; return; }
     if (!(await api.has("dtf"))) { dtfNote.textContent = "Distance to fault is not available on this server yet."; return; }
-    const span = latest.f_stop_hz - latest.f_start_hz;
-    if (span >= DTF_AUTO_SPAN_HZ) { await drawDtfNow(); return; }
-    fill(dtfNote, `The latest sweep spans ${fmt.khz(span)}; placing a fault along the line needs a wide sweep (about 10 MHz or more on typical coax). `,
+    if (dtfPossible(latest)) { await drawDtfNow(); return; }
+    const cell = dtfCell(latest);
+    const why = cell === null
+      ? "no feedline is on record for this sweep, so its velocity factor is unknown"
+      : `the latest sweep spans ${fmt.khz(latest.f_stop_hz - latest.f_start_hz)}, a resolution cell of ${fmt.num(cell, 1, "m")}; a fault is placed with a cell of 10 m or less (a wider sweep)`;
+    fill(dtfNote, `No distance-to-fault view: ${why}. `,
       h("button", { type: "button", class: "small", onclick: () => drawDtfNow() }, "Try anyway"));
   }
 

@@ -3,14 +3,21 @@
 
 import { BASELINE_COLOUR, baseLayout, config, loadPlotly, toCsv } from "./common.js";
 
-/** The distance axis (m), |ρ| in dB and the peaks of a GET /sweeps/{id}/dtf answer. */
-export function dtfArrays(body) {
-  const d = body.distance_m ?? [];
-  const y = (body.reflection ?? []).map((m) => (m > 0 ? 20 * Math.log10(m) : null));
-  return { d, y, peaks: body.peaks ?? [], resolution: body.resolution_m, notes: body.notes ?? [], safety: body.safety };
+/**
+ * The distance axis (m), |ρ| in dB and the peaks of a GET /sweeps/{id}/dtf answer, cut at
+ * `maxM` metres: past the line's far end a loss-compensated trace only amplifies noise.
+ */
+export function dtfArrays(body, maxM = Infinity) {
+  const all = body.distance_m ?? [];
+  const n = all.findIndex((d) => d > maxM);
+  const end = n < 0 ? all.length : n;
+  const d = all.slice(0, end);
+  const y = (body.reflection ?? []).slice(0, end).map((m) => (m > 0 ? 20 * Math.log10(m) : null));
+  const peaks = (body.peaks ?? []).filter((p) => p.distance_m <= maxM);
+  return { d, y, peaks, resolution: body.resolution_m, notes: body.notes ?? [], safety: body.safety };
 }
 
-export async function drawDtf(el, current, baseline, { filename = "dtf" } = {}) {
+export async function drawDtf(el, current, baseline, { filename = "dtf", lineEndM = null } = {}) {
   const Plotly = await loadPlotly();
   const traces = [];
   if (baseline) {
@@ -28,7 +35,15 @@ export async function drawDtf(el, current, baseline, { filename = "dtf" } = {}) 
       marker: { symbol: "triangle-down", size: 10, color: "#a8382f" },
       hovertemplate: "reflection at %{x:.2f} m<br>%{y:.1f} dB<extra></extra>" });
   }
+  const ends = Number.isFinite(lineEndM) ? {
+    shapes: [{ type: "line", xref: "x", yref: "paper", x0: lineEndM, x1: lineEndM, y0: 0, y1: 1,
+      line: { color: "#6b7078", width: 1, dash: "dot" } }],
+    annotations: [{ x: lineEndM, y: 1, xref: "x", yref: "paper", yanchor: "bottom", showarrow: false,
+      text: `line end (${lineEndM.toFixed(1)} m on record)`, font: { size: 11, color: "#55616a" } }],
+  } : {};
   const layout = baseLayout({
+    ...ends,
+    margin: { l: 56, r: 16, t: 22, b: 44 },
     xaxis: { title: { text: "Distance along the line (m)" }, gridcolor: "#ece8df" },
     yaxis: { title: { text: "Reflection (dB)" }, gridcolor: "#ece8df" },
   });
