@@ -11,9 +11,10 @@ export const CAUTIONS = [
   "Follow local codes and licensed practice. Mastwatch points at what changed; a person decides what is safe.",
 ];
 
-export function cautions(title = "Before you go and look") {
+/** The cautions box; `list` replaces the default wording (e.g. the server's own). */
+export function cautions(title = "Before you go and look", list = CAUTIONS) {
   return h("aside", { class: "caution", role: "note", "aria-label": "Safety cautions" },
     h("h3", {}, "⚠ ", title),
-    h("ul", {}, CAUTIONS.map((text) => h("li", {}, text))),
+    h("ul", {}, (list && list.length ? list : CAUTIONS).map((text) => h("li", {}, text))),
   );
 }

@@ -91,17 +91,17 @@ export async function render(root, [siteIdText], query) {
   sinceIn.addEventListener("change", () => sinceIn.value && go(new Date(`${sinceIn.value}T00:00:00Z`).toISOString()));
   eventSel.addEventListener("change", () => eventSel.value && go(eventSel.value));
 
-  const rows = (await api.has("check"))
-    ? fromServer(await api.siteCheck(site.id, since), since)
-    : await composed(site.id, since);
-  const done = rows.filter((r) => r.swept);
+  const server = (await api.has("check")) ? await api.siteCheck(site.id, since) : null;
+  const rows = server ? fromServer(server, since) : await composed(site.id, since);
+  // Flagged antennas first: they are why someone opened this page.
+  const done = rows.filter((r) => r.swept).sort((a, b) => Number(b.flagged) - Number(a.flagged));
   const todo = rows.filter((r) => !r.swept);
   const header = h("tr", {}, ["Antenna", "Verdict", "Latest sweep", "Last before", "Against the sweep before", "Against the baseline"].map((t) => h("th", {}, t)));
   const event = events.find((e) => e.occurred_at === since);
 
   fill(root,
     h("h1", {}, `Site check: ${site.name}`),
-    cautions("Before anyone goes up to look"),
+    cautions("Before anyone goes up to look", server?.cautions),
     h("form", { class: "panel row", onsubmit: (e) => e.preventDefault() },
       field("Site", siteSel), field("Since", sinceIn), field("Event", eventSel)),
     h("p", {}, `Since ${fmt.dateTime(since)}${event ? ` (${event.kind}: ${event.title})` : ""}: `,
