@@ -52,17 +52,20 @@ UPLOADS = int(__import__("os").environ.get("BENCH_UPLOADS", 500))
 POINTS = 1601
 TREND_SIZES = (1_000, 10_000)
 BANDS = ("80m", "40m", "20m")
-REPEATS = 9
+TREND_REPEATS = 15
 
 
-def _median(fn: Callable[[], object], repeats: int = REPEATS) -> float:
-    fn()
-    times = []
+def _round_robin_medians(fns: dict[str, Callable[[], object]], repeats: int) -> dict[str, float]:
+    """Median time of each function, run in turns so load changes hit all of them alike."""
+    for fn in fns.values():
+        fn()  # warm-up
+    times: dict[str, list[float]] = {name: [] for name in fns}
     for _ in range(repeats):
-        t0 = time.perf_counter()
-        fn()
-        times.append(time.perf_counter() - t0)
-    return statistics.median(times)
+        for name, fn in fns.items():
+            t0 = time.perf_counter()
+            fn()
+            times[name].append(time.perf_counter() - t0)
+    return {name: statistics.median(ts) for name, ts in times.items()}
 
 
 def _add_bare_endpoint(app: FastAPI) -> None:
@@ -255,11 +258,12 @@ def _trend_run(app: FastAPI, engine: Engine) -> dict[str, float]:
 
         return go
 
-    out = {}
-    for n in TREND_SIZES:
-        out[f"service_{n}"] = _median(service(n))
-        out[f"raw_{n}"] = _median(raw(n))
-        out[f"endpoint_{n}"] = _median(endpoint(n), repeats=5)
+    variants = {
+        f"{kind}_{n}": make(n)
+        for n in TREND_SIZES
+        for kind, make in (("service", service), ("raw", raw), ("endpoint", endpoint))
+    }
+    out = _round_robin_medians(variants, TREND_REPEATS)
     loop.run_until_complete(client.aclose())
     loop.close()
     return out

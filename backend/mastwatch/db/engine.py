@@ -2,6 +2,8 @@
 
 SQLite gets WAL journaling (readers never block the writer), foreign keys on (off by
 default in SQLite) and a busy timeout so concurrent uploads wait instead of failing.
+PostgreSQL sessions run in UTC, so timestamps arrive aware and in UTC with no per-row
+conversion.
 """
 
 from __future__ import annotations
@@ -27,7 +29,18 @@ def make_engine(url: str, **kwargs: Any) -> Engine:
         engine = create_engine(url, connect_args=connect_args, **kwargs)
         event.listen(engine, "connect", _sqlite_on_connect)
         return engine
-    return create_engine(url, pool_pre_ping=True, **kwargs)
+    engine = create_engine(url, pool_pre_ping=True, **kwargs)
+    if parsed.get_backend_name() == "postgresql":
+        event.listen(engine, "connect", _postgresql_on_connect)
+    return engine
+
+
+def _postgresql_on_connect(dbapi_connection: Any, _record: Any) -> None:
+    # Timestamps come back in UTC whatever the server's default zone (see db/types.py).
+    # Committed at once so a later ROLLBACK of the first transaction cannot undo it.
+    with dbapi_connection.cursor() as cursor:
+        cursor.execute("SET TIME ZONE 'UTC'")
+    dbapi_connection.commit()
 
 
 def _sqlite_on_connect(dbapi_connection: Any, _record: Any) -> None:

@@ -29,6 +29,10 @@ class UTCDateTime(TypeDecorator[datetime]):
         return value.replace(tzinfo=None) if dialect.name == "sqlite" else value
 
     def result_processor(self, dialect: Dialect, coltype: Any) -> Any:
+        if dialect.name == "postgresql":
+            # Connections run with TIME ZONE 'UTC' (db/engine.py): psycopg already returns
+            # aware UTC datetimes, so no per-row Python work (trends read thousands).
+            return None
         if dialect.name != "sqlite":
             return super().result_processor(dialect, coltype)
 

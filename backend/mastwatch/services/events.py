@@ -12,7 +12,7 @@ from typing import Any
 from sqlalchemy import or_, select
 from sqlalchemy.orm import Session
 
-from mastwatch.db.models import Event
+from mastwatch.db.models import Antenna, Event
 from mastwatch.services.antennas import get_antenna
 from mastwatch.services.sites import get_site
 from mastwatch.services.timeutil import to_utc
@@ -53,7 +53,16 @@ def antenna_events(
     until: datetime | None = None,
 ) -> list[Event]:
     """The antenna's own events and its site's, oldest first."""
-    antenna = get_antenna(session, antenna_id)
+    return events_of(session, get_antenna(session, antenna_id), since=since, until=until)
+
+
+def events_of(
+    session: Session,
+    antenna: Antenna,
+    *,
+    since: datetime | None = None,
+    until: datetime | None = None,
+) -> list[Event]:
     query = select(Event).where(
         or_(Event.antenna_id == antenna.id, Event.site_id == antenna.site_id)
     )

@@ -11,15 +11,14 @@ from dataclasses import dataclass
 from datetime import datetime
 from typing import Any
 
-from sqlalchemy import select
-from sqlalchemy.orm import Session
+from sqlalchemy import Row, select
+from sqlalchemy.orm import Session, joinedload, lazyload
 
-from mastwatch.db.models import Event, SweepMetrics
+from mastwatch.db.models import Antenna, Event, SweepMetrics
 from mastwatch.rf import bands as rf_bands
 from mastwatch.rf.metric_table import MetricSpec, get_metric
-from mastwatch.services.antennas import get_antenna
-from mastwatch.services.errors import Invalid
-from mastwatch.services.events import antenna_events
+from mastwatch.services.errors import Invalid, not_found
+from mastwatch.services.events import events_of
 
 
 @dataclass
@@ -28,7 +27,7 @@ class Trend:
     band: str
     metric: MetricSpec
     plane: str
-    points: list[dict[str, Any]]
+    points: list[Row[Any]]  # .sweep_id, .measured_at, .value
     events: list[Event]
 
 
@@ -40,8 +39,8 @@ def trend_points(
     plane: str,
     since: datetime | None = None,
     until: datetime | None = None,
-) -> list[dict[str, Any]]:
-    column = getattr(SweepMetrics, field)
+) -> list[Row[Any]]:
+    column = getattr(SweepMetrics, field).label("value")
     query = select(SweepMetrics.sweep_id, SweepMetrics.measured_at, column).where(
         SweepMetrics.antenna_id == antenna_id,
         SweepMetrics.band == band,
@@ -52,9 +51,9 @@ def trend_points(
     if until is not None:
         query = query.where(SweepMetrics.measured_at <= until)
     query = query.order_by(SweepMetrics.measured_at, SweepMetrics.sweep_id)
-    # Core execution on the session's connection: plain rows, no ORM bookkeeping per row.
-    rows = session.connection().execute(query).all()
-    return [{"sweep_id": sid, "measured_at": at, "value": value} for sid, at, value in rows]
+    # Core execution on the session's connection: plain rows (attributes sweep_id,
+    # measured_at, value), no ORM bookkeeping and no dict per row.
+    return list(session.connection().execute(query).all())
 
 
 def antenna_trend(
@@ -66,7 +65,11 @@ def antenna_trend(
     since: datetime | None = None,
     until: datetime | None = None,
 ) -> Trend:
-    antenna = get_antenna(session, antenna_id)
+    antenna = session.get(
+        Antenna, antenna_id, options=[joinedload(Antenna.site), lazyload(Antenna.feedline)]
+    )
+    if antenna is None:
+        raise not_found("antenna", antenna_id)
     try:
         spec = get_metric(metric)
         band_name = rf_bands.get_band(band, antenna.site.itu_region).name
@@ -75,5 +78,5 @@ def antenna_trend(
     if plane not in ("measured", "feedpoint"):
         raise Invalid("plane must be 'measured' or 'feedpoint'")
     points = trend_points(session, antenna.id, band_name, spec.field, plane, since, until)
-    events = antenna_events(session, antenna.id, since=since, until=until)
+    events = events_of(session, antenna, since=since, until=until)
     return Trend(antenna.id, band_name, spec, plane, points, events)

@@ -44,5 +44,6 @@ def antenna_trend(
         "events": [EventPublic.model_validate(e) for e in t.events],
     }
     return Response(
-        TREND_JSON.dump_json(TREND_JSON.validate_python(doc)), media_type="application/json"
+        TREND_JSON.dump_json(TREND_JSON.validate_python(doc, from_attributes=True)),
+        media_type="application/json",
     )
