@@ -43,7 +43,9 @@ def pytest_collection_modifyitems(config: pytest.Config, items: list[pytest.Item
     here = Path(__file__).parent
     have = Path(CHROMIUM).exists() or shutil.which("chromium")
     for item in items:
-        if here in Path(str(item.fspath)).parents:
+        # Tests that drive a page need Chromium; the serving tests here need only the server.
+        uses_page = "page" in getattr(item, "fixturenames", ())
+        if here in Path(str(item.fspath)).parents and uses_page:
             item.add_marker(pytest.mark.browser)
             if not have:
                 item.add_marker(pytest.mark.skip(reason=f"no Chromium at {CHROMIUM} "

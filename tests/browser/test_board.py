@@ -7,27 +7,6 @@ from typing import Any
 from tests.browser.conftest import Club, PageLog, shot, wait_ready
 
 
-def test_plotly_is_served_locally_gzipped(live_server: Any) -> None:
-    # RECIPES: plotly.js from the installed package, long cache header, gzip.
-    r = live_server.api.get(live_server.url + "/vendor/plotly.min.js",
-                            headers={"Accept-Encoding": "gzip"})
-    assert r.status_code == 200
-    assert r.headers["content-encoding"] == "gzip"
-    assert "max-age=31536000" in r.headers["cache-control"]
-    assert len(r.content) > 4_000_000  # decoded by httpx: the whole bundle
-    assert int(r.headers["content-length"]) < len(r.content) / 2
-
-
-def test_frontend_files_stay_inside_their_directory(live_server: Any) -> None:
-    r = live_server.api.get(live_server.url + "/assets/../pyproject.toml")
-    assert r.status_code == 404
-    r = live_server.api.get(live_server.url + "/assets/%2e%2e/pyproject.toml")
-    assert r.status_code == 404
-    js = live_server.api.get(live_server.url + "/assets/js/main.js")
-    assert js.status_code == 200
-    assert js.headers["content-type"].startswith("text/javascript")
-
-
 def test_board_shows_every_antenna_with_its_verdict(page: Any, page_log: PageLog,
                                                     club: Club) -> None:
     page.set_viewport_size({"width": 1280, "height": 900})

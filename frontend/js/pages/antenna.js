@@ -130,7 +130,7 @@ export async function render(root, [idText], query, isStale) {
   const smith = plotBox("Smith chart", "smith", `antenna-${antennaId}-smith.csv`, () => smithCsv(shown));
   const swr = plotBox("SWR", "", `antenna-${antennaId}-swr.csv`, () => rectCsv("swr", shown));
   const rl = plotBox("Return loss", "", `antenna-${antennaId}-return-loss.csv`, () => rectCsv("rl", shown));
-  const rx = plotBox("R and X", "", `antenna-${antennaId}-r-x.csv`, () => rectCsv("rx", shown));
+  const rx = plotBox("R and X (X dotted)", "", `antenna-${antennaId}-r-x.csv`, () => rectCsv("rx", shown));
   smith.plot.id = "smith-plot";
   swr.plot.id = "swr-plot";
   const planeSel = select({ name: "plane", "aria-label": "Reference plane" },

@@ -103,7 +103,7 @@ export async function render(root, _params, query) {
   const smithA = plotBox(`A: ${fmt.date(a.measured_at)}`, "smith", `compare-${a.id}-smith.csv`, () => smithCsv([sa]), badge(a.status));
   const smithB = plotBox(`B: ${fmt.date(b.measured_at)}`, "smith", `compare-${b.id}-smith.csv`, () => smithCsv([sb]), badge(b.status));
   const swr = plotBox("SWR, overlaid", "", `compare-${a.id}-${b.id}-swr.csv`, () => rectCsv("swr", [sa, sb]));
-  const rx = plotBox("R and X, overlaid", "", `compare-${a.id}-${b.id}-r-x.csv`, () => rectCsv("rx", [sa, sb]));
+  const rx = plotBox("R and X, overlaid (X dotted)", "", `compare-${a.id}-${b.id}-r-x.csv`, () => rectCsv("rx", [sa, sb]));
   swr.plot.id = "compare-swr";
 
   fill(root, ...head,

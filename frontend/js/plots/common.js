@@ -45,7 +45,9 @@ export function baseLayout(extra = {}) {
     plot_bgcolor: "#ffffff",
     font: { family: "system-ui, sans-serif", size: 12, color: "#1f2a30" },
     hovermode: "closest",
-    legend: { orientation: "h", y: -0.2, x: 0 },
+    // Below the x axis title; the container-relative position keeps the two apart at
+    // any plot height (phone plots are short).
+    legend: { orientation: "h", x: 0, xref: "container", y: 0, yref: "container", yanchor: "bottom" },
     ...extra,
   };
 }

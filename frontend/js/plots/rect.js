@@ -36,6 +36,16 @@ function traces(kind, series) {
   return out;
 }
 
+// On a phone the legend would crowd a short plot: it is left out there (the sweep
+// history beside the plots shows each sweep's colour, and hover names every trace).
+const isPhone = () => window.innerWidth < 760;
+
+/** Rows a legend below the plot takes (about three entries per row on a desk). */
+function legendRows(kind, series) {
+  if (isPhone()) return 0;
+  return Math.ceil((series.length * (kind === "rx" ? 2 : 1)) / 3);
+}
+
 function yaxis(kind, series) {
   if (kind === "swr") {
     let top = 1.5;
@@ -57,7 +67,8 @@ export async function drawRect(el, kind, series, { bands = [], resonances = [], 
     xaxis: { title: { text: "Frequency (MHz)" }, gridcolor: "#ece8df" },
     yaxis: yaxis(kind, series),
     shapes, annotations,
-    margin: { l: 56, r: 16, t: 22, b: 44 },
+    margin: { l: 56, r: 16, t: 22, b: 48 + 20 * legendRows(kind, series) },
+    showlegend: !isPhone(),
   });
   await Plotly.react(el, traces(kind, series), layout, config(filename ?? KINDS[kind].filename));
   if (onPick && !el.dataset.pickBound) {
