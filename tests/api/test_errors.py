@@ -86,3 +86,14 @@ async def test_too_large_is_413_with_the_limit(app, client: httpx.AsyncClient) -
     app.state.settings = app.state.settings.model_copy(update={"max_upload_bytes": 1000})
     body = assert_shape(await upload(client, antenna["id"], rlc_touchstone()), 413)
     assert "limit of 1000 bytes" in body["detail"]
+
+
+async def test_a_bug_is_500_in_the_same_shape(app) -> None:
+    @app.get("/boom")
+    def boom() -> None:
+        raise KeyError("oops")
+
+    transport = httpx.ASGITransport(app=app, raise_app_exceptions=False)
+    async with httpx.AsyncClient(transport=transport, base_url="http://test") as c:
+        body = assert_shape(await c.get("/boom"), 500)
+    assert body["detail"] == "internal error (KeyError); this is a bug"

@@ -9,6 +9,7 @@ HTTPException             → its status (404 unknown path, 405, 413 body too la
 
 from __future__ import annotations
 
+import logging
 from typing import Any
 
 from fastapi import FastAPI, Request
@@ -18,6 +19,8 @@ from starlette.exceptions import HTTPException as StarletteHTTPException
 
 from mastwatch.rf.errors import RFError, SweepFormatError
 from mastwatch.services.errors import ServiceError
+
+logger = logging.getLogger("mastwatch.api")
 
 
 def error_body(detail: str, line: int | None = None) -> dict[str, Any]:
@@ -62,8 +65,15 @@ async def _http_error(_request: Request, exc: Exception) -> JSONResponse:
     )
 
 
+async def _internal_error(_request: Request, exc: Exception) -> JSONResponse:
+    # A 5xx is always a bug: logged with its traceback, answered in the same shape.
+    logger.error("unhandled error", exc_info=exc)
+    return error_response(500, f"internal error ({type(exc).__name__}); this is a bug")
+
+
 def install_error_handlers(app: FastAPI) -> None:
     app.add_exception_handler(RFError, _rf_error)
     app.add_exception_handler(ServiceError, _service_error)
     app.add_exception_handler(RequestValidationError, _validation_error)
     app.add_exception_handler(StarletteHTTPException, _http_error)
+    app.add_exception_handler(Exception, _internal_error)
