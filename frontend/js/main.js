@@ -51,6 +51,8 @@ async function route() {
     clear(root).append(view);
     await page.render(view, params, query, () => mine !== generation);
     if (mine !== generation) return;
+    const heading = view.querySelector("h1");
+    document.title = heading ? `${heading.textContent} · Mastwatch` : "Mastwatch";
     root.dataset.ready = path;
   } catch (err) {
     if (mine !== generation) return;

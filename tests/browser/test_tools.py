@@ -121,3 +121,36 @@ def test_site_check_after_the_storm(page: Any, page_log: PageLog, club: Club,
     assert page.locator(".caution li").count() == len(api["cautions"])
     shot(page, "check-storm")
     assert page_log.errors == []
+
+
+def test_manage_forms_create_records(page: Any, page_log: PageLog, club: Club,
+                                     live_server: Any) -> None:
+    page.set_viewport_size({"width": 1280, "height": 900})
+    page.goto("/#/manage/sites")
+    wait_ready(page, "/manage")
+    page.fill("form.manage-form input[name=name]", "Q0HRS portable hill")
+    page.fill("form.manage-form input[name=locator]", "io91wm")
+    page.click("form.manage-form button[type=submit]")
+    page.locator("td", has_text="Q0HRS portable hill").wait_for()
+    site = next(s for s in live_server.api.get("/sites").json()
+                if s["name"] == "Q0HRS portable hill")
+    assert site["locator"] == "IO91wm"  # the API's normal form of a Maidenhead locator
+
+    # A bad locator is refused with the API's own reason shown beside the form.
+    page.fill("form.manage-form input[name=name]", "Another site")
+    page.fill("form.manage-form input[name=locator]", "ZZ99")
+    page.click("form.manage-form button[type=submit]")
+    page.locator("form.manage-form .error").wait_for()
+    assert "Maidenhead" in page.locator("form.manage-form .error").inner_text()
+
+    page.goto("/#/manage/events")
+    wait_ready(page, "/manage")
+    page.select_option("select[name=owner]", f"site:{site['id']}")
+    page.select_option("select[name=kind]", "storm")
+    page.fill("input[name=title]", "Hail shower")
+    page.click("form.manage-form button[type=submit]")
+    page.locator("td", has_text="Hail shower").wait_for()
+    events = live_server.api.get(f"/sites/{site['id']}/events").json()
+    assert [e["kind"] for e in events if e["title"] == "Hail shower"] == ["storm"]
+    # The only failed request is the refused locator (422), as intended.
+    assert [f.split()[0] for f in page_log.failed] == ["422"]

@@ -186,16 +186,21 @@ async function eventsTab() {
     if (kind === "site") await api.createSiteEvent(Number(id), body); else await api.createAntennaEvent(Number(id), body);
     reload();
   }, "Add event");
-  const all = (await Promise.all(sites.map((s) => api.siteEvents(s.id).then((es) => es.map((e) => ({ ...e, where: s.name }))))))
-    .flat().sort((a, b) => String(b.occurred_at).localeCompare(String(a.occurred_at)));
+  const siteName = new Map(sites.map((s) => [s.id, s.name]));
   const antName = new Map(antennas.map((a) => [a.id, a.name]));
+  const lists = await Promise.all([...sites.map((s) => api.siteEvents(s.id)), ...antennas.map((a) => api.antennaEvents(a.id))]);
+  const byId = new Map(lists.flat().map((e) => [e.id, e]));
+  const antSite = new Map(antennas.map((a) => [a.id, a.site_id]));
+  const all = [...byId.values()]
+    .map((e) => ({ ...e, where: siteName.get(e.site_id ?? antSite.get(e.antenna_id)) ?? "" }))
+    .sort((a, b) => String(b.occurred_at).localeCompare(String(a.occurred_at)));
   return [
     h("h2", {}, "Add an event"),
     h("p", { class: "muted small" }, "Storms, repairs and modifications show as markers on the trend plots; a repair or modification starts a new baseline."),
     owners.length ? f : h("p", { class: "panel" }, "Add a site first."),
     h("h2", {}, "Events"),
     table(["When", "Kind", "Where", "Title", "Notes"], all.map((e) => h("tr", {},
-      h("td", {}, fmt.date(e.occurred_at)), h("td", {}, e.kind), h("td", {}, e.antenna_id ? `${e.where} / ${antName.get(e.antenna_id) ?? ""}` : e.where),
+      h("td", { class: "nowrap" }, fmt.date(e.occurred_at)), h("td", {}, e.kind), h("td", {}, e.antenna_id ? `${e.where} / ${antName.get(e.antenna_id) ?? ""}` : e.where),
       h("td", {}, e.title), h("td", { class: "small" }, e.notes ?? "")))),
   ];
 }
