@@ -10,7 +10,7 @@
                                 pages never probe for them with failing requests
 
 No CDN and no build step: everything the pages need comes from this process, so the app
-works at a field site with no internet. The router holds no business logic; the pages talk
+works at a field site with no internet. The router holds no business logic; the pages call
 to ``/api/v1`` like any other client.
 """
 
