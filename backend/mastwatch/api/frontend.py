@@ -11,7 +11,7 @@
 
 No CDN and no build step: everything the pages need comes from this process, so the app
 works at a field site with no internet. The router holds no business logic; the pages call
-to ``/api/v1`` like any other client.
+``/api/v1`` like any other client.
 """
 
 from __future__ import annotations
