@@ -149,13 +149,19 @@ def test_too_large_is_refused_before_decoding() -> None:
 def test_nul_bytes_mean_not_text() -> None:
     e = failure(b"# MHz S RI R 50\n7.0 0.1 0.1\n\x00\x01\x02")
     assert e.line == 3
-    assert "not a text file" in e.message
+    # The offset counts from 0: 16 bytes of option line + 12 of data line come first.
+    assert e.message == "not a text file: byte 0x00 at offset 28 (a NUL byte; is it a binary file?)"
 
 
 def test_invalid_utf8_means_not_text() -> None:
     e = failure(b"! ok\n! caf\xe9\n7.0 0.1 0.1\n")
     assert e.line == 2
-    assert "not a text file" in e.message and "UTF-8" in e.message
+    # Latin-1 "é" (0xE9) opens a 3-byte UTF-8 sequence but "\n" follows, so it is invalid
+    # (RFC 3629 §3); it sits at offset 10 counting from 0 ("! ok\n" is 5 bytes, "! caf" 5).
+    assert e.message == (
+        "not a text file: byte 0xE9 at offset 10 is not valid UTF-8 "
+        "(save the file as UTF-8 text)"
+    )
 
 
 @pytest.mark.parametrize("newline", ["\r\n", "\r"])

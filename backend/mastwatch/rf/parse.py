@@ -46,13 +46,17 @@ def decode_text(data: bytes) -> str:
     nul = data.find(b"\x00")
     if nul >= 0:
         line = data.count(b"\n", 0, nul) + 1
-        raise SweepFormatError("not a text file (it holds NUL bytes; is it a binary file?)", line)
+        raise SweepFormatError(
+            f"not a text file: byte 0x00 at offset {nul} (a NUL byte; is it a binary file?)",
+            line,
+        )
     try:
         text = data.decode("utf-8")
     except UnicodeDecodeError as e:
         line = data.count(b"\n", 0, e.start) + 1
         raise SweepFormatError(
-            f"not a text file: byte {e.start} is not valid UTF-8 (save the file as UTF-8 text)",
+            f"not a text file: byte 0x{data[e.start]:02X} at offset {e.start} is not valid "
+            "UTF-8 (save the file as UTF-8 text)",
             line,
         ) from None
     if text.startswith("\ufeff"):
