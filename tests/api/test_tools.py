@@ -127,3 +127,21 @@ async def test_match_errors(client: httpx.AsyncClient) -> None:
     r = await client.get(f"{API}/sweeps/{sweep_id}/match",
                          params={"at_hz": 7.1e6, "plane": "feedpoint"})
     assert r.status_code == 200  # a feedpoint sweep: both planes are the same
+
+
+async def test_dtf_view_is_bounded_and_physical(client: httpx.AsyncClient) -> None:
+    # Loss compensation never reports |ρ| > 1 (a passive line), and max_distance_m bounds
+    # the view and the peaks (docs/feedlines.md, "Distance to fault", step 5).
+    (sweep_id,) = await _stored(client, _line_file())
+    r = await client.get(
+        f"{API}/sweeps/{sweep_id}/dtf", params={"cable": "RG-58", "max_distance_m": 20}
+    )
+    assert r.status_code == 200, r.text
+    body = r.json()
+    assert body["max_distance_m"] == 20.0
+    assert max(body["distance_m"]) <= 20.0 + body["resolution_m"]
+    assert all(p["distance_m"] <= 20.0 for p in body["peaks"])
+    assert not any(abs(p["distance_m"] - 23.4) < body["resolution_m"] for p in body["peaks"])
+    assert max(body["reflection"]) <= 1.0
+    r = await client.get(f"{API}/sweeps/{sweep_id}/dtf", params={"max_distance_m": 0})
+    assert r.status_code == 422

@@ -186,3 +186,79 @@ def test_any_single_reflection_is_placed_and_scaled(frac: float, rho: float, vf:
     assert len(r.peaks) == 1
     assert abs(r.peaks[0].distance_m - d0) < 0.1 * r.resolution_m
     assert r.peaks[0].reflection == pytest.approx(rho, rel=5e-3)
+
+
+# -- loss compensation stays physical -------------------------------------------------
+# A passive line cannot return more than it was sent: a compensated |ρ| above 1 is a
+# sign of a wrong cable model, and compensating noise far beyond the line's end only
+# amplifies it (e^(2αd) reaches 10^20 over a 1,601-point HF sweep's 5.6 km range).
+
+F1601 = np.linspace(1.8e6, 30e6, 1601)  # an HF sweep as clubs take them
+
+
+def _noisy_open_on(cable: CableType, length_m: float, sigma: float, seed: int) -> Sweep:
+    """An open at ``length_m`` on ``cable`` (its own α(f) and VF), plus complex noise."""
+    f = F1601
+    gamma = cable.alpha_np_per_m(f) + 2j * np.pi * f / (cable.velocity_factor * C0)
+    rng = np.random.default_rng(seed)
+    noise = sigma * (rng.standard_normal(f.size) + 1j * rng.standard_normal(f.size))
+    return Sweep(f, np.exp(-2 * gamma * length_m) + noise)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_compensated_open_on_lossy_cable_with_noise_stays_physical(seed: int) -> None:
+    cable = CABLES["RG-213"]
+    r = distance_to_fault(_noisy_open_on(cable, 12.0, 1e-3, seed), cable=cable)
+    assert r.loss_compensated
+    assert all(p.reflection <= 1.0 for p in r.peaks), [p.reflection for p in r.peaks]
+    assert float(np.max(r.reflection)) <= 1.0
+    assert len(r.peaks) == 1, [(p.distance_m, p.reflection) for p in r.peaks]
+    assert abs(r.peaks[0].distance_m - 12.0) < r.resolution_m
+    # 12 m of RG-213 loses little at HF: the open reads |ρ| ≈ 1 after compensation
+    assert r.peaks[0].reflection == pytest.approx(1.0, abs=0.03)
+    # the view stops where compensation stops, far short of the 5.6 km range
+    assert r.max_distance_m < r.range_m / 4
+    assert r.distance_m[-1] <= r.max_distance_m + r.distance_m[1]
+
+
+def test_explicit_max_distance_bounds_the_view_and_the_peaks() -> None:
+    cable = CABLES["RG-58"]
+    sweep = _noisy_open_on(cable, 40.0, 1e-3, 7)
+    near = distance_to_fault(sweep, cable=cable, max_distance_m=30.0)
+    assert near.max_distance_m == 30.0
+    assert near.peaks == () or all(p.distance_m <= 30.0 for p in near.peaks)
+    far = distance_to_fault(sweep, cable=cable, max_distance_m=60.0)
+    assert [round(p.distance_m) for p in far.peaks] == [40]
+    assert far.to_dict()["max_distance_m"] == 60.0
+    with pytest.raises(AnalysisError, match="maximum distance"):
+        distance_to_fault(sweep, cable=cable, max_distance_m=-1.0)
+
+
+def test_overestimated_loss_is_capped_at_one_and_said() -> None:
+    # Measured on low-loss hardline, analysed as if it were thin RG-174 (far lossier):
+    # compensation would lift the 60 m open well above 1. It is reported as 1, with a note.
+    hardline, thin = CABLES["hardline-1/2in"], CABLES["RG-174"]
+    sweep = _noisy_open_on(hardline, 60.0, 1e-4, 3)
+    r = distance_to_fault(sweep, hardline.velocity_factor, cable=thin)
+    assert max(p.reflection for p in r.peaks) == 1.0
+    assert any("cannot give" in n and "RG-174" in n for n in r.notes), r.notes
+
+
+def test_without_compensation_the_whole_range_is_shown() -> None:
+    cable = CABLES["RG-213"]
+    r = distance_to_fault(_noisy_open_on(cable, 12.0, 1e-3, 1), cable=cable, compensate_loss=False)
+    assert r.max_distance_m == pytest.approx(r.range_m, rel=1e-3)
+    assert all(p.reflection <= 1.0 for p in r.peaks)
+
+
+def test_asking_for_the_whole_range_with_compensation_stays_bounded() -> None:
+    # A strong reflection at the analyzer leaks into the far end of the circular
+    # transform (negative delays); compensating it there must not invent faults.
+    cable = CABLES["RG-213"]
+    f = F1601
+    g = 0.6 + 0.3 * _noisy_open_on(cable, 17.0, 1e-3, 5).gamma  # mismatch at d = 0 too
+    r = distance_to_fault(Sweep(f, g), cable=cable, max_distance_m=1e6)
+    assert r.max_distance_m == pytest.approx(r.range_m / 2)
+    assert [round(p.distance_m) for p in r.peaks] == [0, 17]
+    assert any("half the unambiguous range" in n for n in r.notes)
+    assert any("held beyond" in n for n in r.notes)

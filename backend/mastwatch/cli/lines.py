@@ -125,6 +125,14 @@ def dtf(
     no_loss_comp: Annotated[
         bool, typer.Option("--no-loss-comp", help="Do not compensate the cable's loss.")
     ] = False,
+    max_distance: Annotated[
+        float | None,
+        typer.Option(
+            "--max-distance",
+            help="Look this far along the line, in metres (default: the whole range, or "
+            "with loss compensation as far as a total reflection stays above the threshold).",
+        ),
+    ] = None,
     plot: Annotated[
         Path | None, typer.Option("--plot", help="Draw reflection vs distance (.html or .png).")
     ] = None,
@@ -150,6 +158,7 @@ def dtf(
         result = distance_to_fault(
             sweep, vf, window=window, beta=beta, pad=pad, cable=cable_type,
             compensate_loss=not no_loss_comp, threshold_db=threshold_db,
+            max_distance_m=max_distance,
         )
     except (OSError, RFError) as e:
         raise _fail(name, e) from None
@@ -171,6 +180,8 @@ def dtf(
     )
     console.print(
         f"  resolution {result.resolution_m:.3f} m, unambiguous range {result.range_m:.2f} m"
+        + (f", shown to {result.max_distance_m:.2f} m"
+           if result.max_distance_m < 0.999 * result.range_m else "")
     )
     for note in result.notes:
         console.print(f"  note: {note}")

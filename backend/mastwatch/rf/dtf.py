@@ -10,6 +10,21 @@ Bandpass-mode time-domain transform (REFERENCES §7; Oppenheim & Schafer,
       × e^(+2α·d) when a cable is given (loss compensation, α at the sweep centre)
     d_n = t_n·VF·c/2,  resolution = VF·c/(2·span),  range = VF·c·(N−1)/(2·span)
 
+Loss compensation is bounded, because e^(+2α·d) over a whole HF sweep's range (5.6 km
+for 1,601 points over 1.8–30 MHz) turns noise into reflections of 10^20:
+
+- the view ends at ``max_distance_m``: by default, with compensation, where the line's
+  two-way loss reaches the peak threshold (beyond it even an open would come back
+  weaker than the threshold, so all compensation could add there is noise), and never
+  past half the range (the far half of the circular transform holds negative delays:
+  the leakage of the reflections near the analyzer); without compensation, the whole
+  unambiguous range;
+- the compensation gain is held, not grown, past the threshold distance;
+- a compensated peak must also stand 12 dB above the transform's noise floor (median
+  |h| before compensation), so amplified noise is never listed;
+- a passive line cannot reflect more than it receives: compensated |ρ| above 1 is
+  shown as 1, and above 1.05 a note says the assumed loss is too high.
+
 Peaks (scipy.signal.find_peaks above a return-loss threshold) are refined by a
 parabola through the three samples around each maximum. The window widens the main
 lobe (about 1.5–2.5 resolution cells) in exchange for low side lobes; zero padding
@@ -48,6 +63,13 @@ DEFAULT_THRESHOLD_DB = 30.0
 of an open sit near −44 dB, so they stay below it."""
 
 WINDOWS = ("kaiser", "rect")
+
+NOISE_MARGIN = 4.0
+"""A compensated peak must stand this far (×4, 12 dB) above the median |h| before
+compensation: white noise of the transform rarely exceeds 3× its median."""
+
+OVER_UNITY_MARGIN = 1.05
+"""Compensated |ρ| between 1 and this is model rounding; above it the cable is wrong."""
 
 SAFETY_NOTE = (
     "Safety: inspecting a feedline means roofs and towers. Never climb alone or in a "
@@ -91,6 +113,7 @@ class DtfResult:
     f_start_hz: float
     f_stop_hz: float
     threshold_db: float
+    max_distance_m: float
     resampled: bool = False
     loss_compensated: bool = False
     alpha_np_per_m: float | None = None
@@ -136,6 +159,7 @@ class DtfResult:
             "f_stop_hz": self.f_stop_hz,
             "span_hz": self.span_hz,
             "threshold_db": self.threshold_db,
+            "max_distance_m": self.max_distance_m,
             "resampled": self.resampled,
             "loss_compensated": self.loss_compensated,
             "alpha_np_per_m": self.alpha_np_per_m,
@@ -154,7 +178,7 @@ class DtfResult:
 
 @lru_cache(maxsize=32)
 def _window(n: int, kind: str, beta: float) -> FloatArray:
-    """The window and its sum, cached: a sweep's length repeats across a club's records."""
+    """The window, cached (read-only): a sweep's length repeats across a club's records."""
     w = kaiser(n, beta, sym=True) if kind == "kaiser" else np.ones(n)
     w.flags.writeable = False
     return w
@@ -192,14 +216,17 @@ def distance_to_fault(
     compensate_loss: bool = True,
     threshold_db: float = DEFAULT_THRESHOLD_DB,
     max_resolution_m: float = DEFAULT_MAX_RESOLUTION_M,
+    max_distance_m: float | None = None,
 ) -> DtfResult:
     """Reflection along the line of a line-input sweep (see the module docstring).
 
     ``velocity_factor`` defaults to the cable's; with a ``cable`` its loss is
     compensated (×e^(+2αd), α at the sweep's centre frequency) unless
-    ``compensate_loss`` is False. Raises AnalysisError when the sweep cannot say
-    anything: no phase, fewer than 32 points, or a span too narrow for a resolution
-    cell of ``max_resolution_m`` or less.
+    ``compensate_loss`` is False. The result covers 0 to ``max_distance_m`` (default:
+    see the module docstring; at most the unambiguous range). Raises AnalysisError
+    when the sweep cannot say anything: no phase, fewer than 32 points, a span too
+    narrow for a resolution cell of ``max_resolution_m`` or less, or a maximum
+    distance that is not a positive length.
     """
     vf = velocity_factor if velocity_factor is not None else (
         cable.velocity_factor if cable is not None else None
@@ -214,6 +241,8 @@ def distance_to_fault(
         raise AnalysisError(f"Kaiser β must be ≥ 0, got {beta}")
     if not (isinstance(pad, int) and 1 <= pad <= 64):
         raise AnalysisError(f"pad factor must be a whole number from 1 to 64, got {pad}")
+    if max_distance_m is not None and not (math.isfinite(max_distance_m) and max_distance_m > 0):
+        raise AnalysisError(f"the maximum distance must be a positive length, got {max_distance_m}")
     if not sweep.has_phase:
         raise AnalysisError(
             "distance to fault needs the phase of Γ; this sweep has SWR only "
@@ -250,39 +279,82 @@ def distance_to_fault(
     dd = vf * C0 / (2.0 * m * df)  # distance per output sample
     distance = np.arange(m) * dd
 
+    range_m = vf * C0 / (2.0 * df)
+    height = 10.0 ** (-threshold_db / 20.0)
     alpha = None
-    compensated = False
-    if cable is not None and compensate_loss:
-        alpha = float(cable.alpha_np_per_m(np.array([0.5 * (f[0] + f[-1])]))[0])
-        mag *= np.exp(2.0 * alpha * distance)
-        compensated = True
+    compensated = cable is not None and compensate_loss
+    floor = 0.0
+    view_m = range_m if max_distance_m is None else min(max_distance_m, range_m)
+    if max_distance_m is not None and max_distance_m > range_m:
         notes.append(
-            f"loss compensated with {cable.name}'s α = {alpha:.4g} Np/m at the sweep centre; "
-            "beyond the line's end this only amplifies noise"
+            f"the sweep's unambiguous range is {range_m:.4g} m: nothing beyond it can be "
+            "placed (sweep with finer frequency steps to see further)"
+        )
+    raw = mag
+    if compensated:
+        assert cable is not None
+        alpha = float(cable.alpha_np_per_m(np.array([0.5 * (f[0] + f[-1])]))[0])
+        floor = float(np.median(mag))
+        # Where the two-way loss reaches the threshold: even an open comes back weaker.
+        natural_m = -math.log(height) / (2.0 * alpha) if alpha > 0 else math.inf
+        view_m = min(natural_m if max_distance_m is None else max_distance_m, 0.5 * range_m)
+        if max_distance_m is not None and max_distance_m > 0.5 * range_m:
+            notes.append(
+                "with loss compensation the view stops at half the unambiguous range: the far "
+                "half holds the leakage of reflections near the analyzer (negative delays)"
+            )
+        gain_to = min(view_m, natural_m)
+        # Negative delays (the far half) get their mirror's gain: no line is there, and the
+        # main lobe of a reflection at d = 0 stays symmetric, so it is still found.
+        mirrored = np.minimum(distance, m * dd - distance)
+        mag = mag * np.exp(2.0 * alpha * np.minimum(mirrored, gain_to))
+        notes.append(
+            f"loss compensated with {cable.name}'s α = {alpha:.4g} Np/m at the sweep centre, "
+            f"out to {gain_to:.4g} m"
+            + (
+                f" and held beyond (there the line's two-way loss exceeds {threshold_db:g} dB)"
+                if gain_to < view_m
+                else ""
+            )
         )
     if window == "rect":
         notes.append("rectangular window: side lobes at about −13 dB can show as false peaks")
 
-    height = 10.0 ** (-threshold_db / 20.0)
     ext = np.concatenate([mag[-1:], mag, mag[:1]])  # circular: a peak at d = 0 counts
     idx, _ = find_peaks(ext, height=height)
     peaks = []
+    over_unity: list[tuple[float, float]] = []
     for i in idx - 1:
         pos, value = _refine(mag, int(i))
         # A reflection at the reference plane refines to a hair below sample 0: it is at
         # d = 0, not at the far end of the range (which `pos % m` would make of it).
         d = max(pos, 0.0) * dd
+        if d > view_m or (compensated and raw[i] < NOISE_MARGIN * floor):
+            continue
+        if value > 1.0:
+            if value > OVER_UNITY_MARGIN:
+                over_unity.append((float(d), value))
+            value = 1.0
         with np.errstate(divide="ignore"):
             rl = float(-20.0 * np.log10(value)) if value > 0 else math.inf
         peaks.append(DtfPeak(float(d), value, rl))
     peaks.sort(key=lambda p: p.distance_m)
+    if over_unity and cable is not None:
+        d, value = max(over_unity, key=lambda dv: dv[1])
+        notes.append(
+            f"after compensation the reflection at {d:.1f} m reads |ρ| = {value:.2f}, which a "
+            f"passive line cannot give: the line loses less than {cable.name} would (check "
+            "the cable type and length); shown as 1"
+        )
+    keep = distance <= view_m + 0.5 * dd
+    distance, mag = distance[keep], np.minimum(mag[keep], 1.0) if compensated else mag[keep]
 
     return DtfResult(
         distance_m=distance,
         reflection=mag,
         peaks=tuple(peaks),
         resolution_m=resolution,
-        range_m=vf * C0 / (2.0 * df),
+        range_m=range_m,
         velocity_factor=float(vf),
         window=window,
         beta=float(beta) if window == "kaiser" else None,
@@ -291,6 +363,7 @@ def distance_to_fault(
         f_start_hz=float(f[0]),
         f_stop_hz=float(f[-1]),
         threshold_db=float(threshold_db),
+        max_distance_m=float(view_m),
         resampled=resampled,
         loss_compensated=compensated,
         alpha_np_per_m=alpha,

@@ -50,6 +50,10 @@ class DtfOut(BaseModel):
     f_stop_hz: float
     span_hz: float
     threshold_db: float
+    max_distance_m: float = Field(
+        description="the view (distance_m, peaks) ends here; with loss compensation, by "
+        "default where the line's two-way loss reaches threshold_db"
+    )
     resampled: bool
     loss_compensated: bool
     alpha_np_per_m: float | None
@@ -135,6 +139,10 @@ def sweep_dtf(
         float, Query(ge=0, le=120, description="peaks with return loss below this")
     ] = DEFAULT_THRESHOLD_DB,
     compensate_loss: bool = True,
+    max_distance_m: Annotated[
+        float | None,
+        Query(gt=0, description="look this far along the line (default: see docs/feedlines.md)"),
+    ] = None,
     arrays: bool = True,
     max_points: Annotated[int, Query(ge=16, le=200_000)] = 2000,
 ) -> dict[str, Any]:
@@ -150,6 +158,7 @@ def sweep_dtf(
         cable=cable_type,
         compensate_loss=compensate_loss,
         threshold_db=threshold_db,
+        max_distance_m=max_distance_m,
     )
     body = result.to_dict(arrays=arrays, max_points=max_points)
     return {"sweep_id": sweep_id, "plane": "measured", **body, "safety": SAFETY_NOTE}
