@@ -413,3 +413,44 @@ def test_point_values_match_scikit_rf() -> None:
         assert p.r_ohm == pytest.approx(inter.z[j, 0, 0].real, rel=1e-9)
         assert p.x_ohm == pytest.approx(inter.z[j, 0, 0].imag, rel=1e-9, abs=1e-9)
         assert p.swr == pytest.approx(inter.s_vswr[j, 0, 0], rel=1e-9)
+
+
+# -- on the rim of the chart ------------------------------------------------------------
+# A lossless reactance keeps |Γ| = 1 at every frequency (Foster's reactance theorem;
+# Pozar, Microwave Engineering 4th ed. §4.5, from memory), so between two measured
+# points on the rim Γ follows the rim: the chord between them, which dips inside, is an
+# artefact of the straight-line model. DESIGN.md: SWR is infinite where |Γ| ≥ 1 and the
+# API returns null, never a made-up number.
+
+
+def _open_line(f: np.ndarray, length_m: float, vf: float = 0.66) -> Sweep:
+    """An open at the end of a lossless line: Γ = e^(−2jβl), |Γ| = 1 at every point."""
+    beta = 2 * np.pi * f / (vf * 299_792_458.0)
+    return Sweep(f, np.exp(-2j * beta * length_m))
+
+
+def test_open_circuit_has_no_finite_swr_anywhere() -> None:
+    f = np.linspace(6.9e6, 7.3e6, 201)
+    sweep = _open_line(f, 500.0)  # phase turns about 8.8° per step: the chord dips to 0.997
+    assert np.all(np.abs(sweep.gamma) == pytest.approx(1.0, abs=1e-15))
+    m = compute_metrics(sweep, [BAND_40M_R1])
+    assert math.isinf(m.min_swr)
+    band = m.band("40m")
+    assert band.min_swr is not None and math.isinf(band.min_swr)
+    assert band.swr_center is not None and math.isinf(band.swr_center)
+    assert band.usable_fraction_2 == 0.0 and band.bandwidth_2_hz is None
+    doc = json.loads(json.dumps(m.to_dict(), allow_nan=False))
+    assert doc["min_swr"] is None
+    assert doc["bands"][0]["min_swr"] is None and doc["bands"][0]["swr_center"] is None
+    # between two rim points value_at follows the rim too
+    assert math.isinf(value_at(sweep, 7.0001e6).swr)
+
+
+def test_a_dip_between_points_inside_the_chart_is_still_found() -> None:
+    # Not on the rim: Γ = 0.2∠+80° then 0.2∠−80° passes near the centre between the
+    # samples (the straight line is the model there); the minimum is the chord's.
+    g0, g1 = 0.2 * np.exp(1j * np.radians(80)), 0.2 * np.exp(-1j * np.radians(80))
+    m = compute_metrics(Sweep(np.array([7.0e6, 7.1e6]), np.array([g0, g1])))
+    mag = 0.2 * math.cos(math.radians(80))  # the chord's closest approach to the centre
+    assert m.min_swr == pytest.approx((1 + mag) / (1 - mag), rel=1e-12)
+    assert m.min_swr_hz == pytest.approx(7.05e6, rel=1e-12)

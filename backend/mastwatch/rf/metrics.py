@@ -22,6 +22,15 @@ vectorised over all segments:
   deep, narrow dip's shape; away from a dip the two agree to second order.
 - value_at: Γ interpolated, then Z, SWR, RL, ML from it.
 
+**On the rim** the straight line is not the model: where both ends of a segment have
+|Γ| ≥ 1 (within RIM_TOL), Γ follows the rim instead, |Γ| linear in frequency and the
+phase turning along the shorter arc. A lossless reactance keeps |Γ| = 1 at every
+frequency (Foster's reactance theorem), so the chord's dip inside the chart would be an
+artefact: an open or a short would get a finite "minimum SWR" of a few hundred from a
+sweep whose every point says infinite (DESIGN.md: SWR is infinite where |Γ| ≥ 1, and
+the API returns null). |Γ(t)|² = (a + b·t)² is still a convex quadratic, so every
+query below treats those segments with the same closed forms.
+
 Resonances: where X = Im Z changes sign between adjacent points, located by linear
 interpolation of X; series if X rises through zero (dX/df > 0), parallel if it
 falls. r_ohm is R interpolated linearly at the crossing. **Pole rule**: X also flips
@@ -64,6 +73,7 @@ Q are None and their names are listed in ``unavailable``. Infinite SWR is kept a
 
 from __future__ import annotations
 
+import cmath
 import math
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, fields
@@ -219,6 +229,10 @@ class SweepMetrics(_Result):
 # -- the piecewise-linear Γ model -----------------------------------------------------
 
 
+RIM_TOL = 1e-12
+"""|Γ| within this of 1 is on the rim (SWR above 2·10¹² is round-off, not a reading)."""
+
+
 class _Model:
     """Γ linear between points: per segment k, |Γ(t)|² = A·t² + B·t + C on t ∈ [0, 1].
 
@@ -242,12 +256,21 @@ class _Model:
             self.A = d.real**2 + d.imag**2
             self.B = 2.0 * (g0.real * d.real + g0.imag * d.imag)
             self.C = self.mag2[:-1]
+            on_rim = self.mag2 >= (1.0 - RIM_TOL) ** 2
+            self.rim = on_rim[:-1] & on_rim[1:]
+            rim = np.flatnonzero(self.rim)
+            if rim.size:  # |Γ| = a + b·t there: |Γ|² = b²t² + 2ab·t + a² (module docstring)
+                mag = np.sqrt(self.mag2)
+                a, b = mag[rim], mag[rim + 1] - mag[rim]
+                self.A[rim], self.B[rim], self.C[rim] = b * b, 2.0 * a * b, a * a
             # A = 0 means Γk+1 = Γk (then B = 0 too): constant segment, minimum at t = 0
             tv = np.divide(-self.B, 2.0 * self.A, out=np.zeros_like(self.B), where=self.A > 0)
             self.tv = np.clip(tv, 0.0, 1.0)
             # |Γ|² at the vertex from Γ itself: the expanded quadratic cancels near a zero
             gv = g0 + self.tv * d
             self.vmin = gv.real**2 + gv.imag**2
+            if rim.size:  # the vertex of a rim segment is one of its ends: exact there
+                self.vmin[rim] = np.minimum(self.mag2[rim], self.mag2[rim + 1])
 
     # scalar work on one segment (plain floats: cheaper than numpy on one element)
 
@@ -256,8 +279,17 @@ class _Model:
         a, b = float(self.A[k]), float(self.B[k])
         t = -b / (2.0 * a) if a > 0 else ta
         t = min(max(t, ta), tb)
-        g = complex(self.g[k] + t * (self.g[k + 1] - self.g[k]))  # no cancellation near 0
+        g = self._at(k, t)  # from Γ itself: no cancellation near 0
         return (g.real**2 + g.imag**2, t)
+
+    def _at(self, k: int, t: float) -> complex:
+        """Γ at fraction t of segment k: on the chord, or along the rim (docstring)."""
+        g0, g1 = complex(self.g[k]), complex(self.g[k + 1])
+        if not self.rim[k]:
+            return g0 + t * (g1 - g0)
+        m0, m1 = abs(g0), abs(g1)
+        turn = cmath.phase(g1 / g0)  # the shorter arc, in (−π, π]
+        return (m0 + t * (m1 - m0)) * cmath.exp(1j * (cmath.phase(g0) + t * turn))
 
     def _seg_inside(self, k: int, m2: float) -> tuple[float, float] | None:
         """(t_lo, t_hi) of the part of segment k where |Γ(t)|² ≤ m2, or None."""
@@ -308,9 +340,9 @@ class _Model:
             if v < best[0]:
                 best = (v, k1, t)
         _, k, t = best
-        g = self.g[k] + t * (self.g[k + 1] - self.g[k])  # |Γ|² again, free of cancellation
+        g = self._at(k, t)  # |Γ|² again, free of cancellation
         hz = min(max(float(f[k] + t * self.df[k]), lo), hi)  # no round-off past the edges
-        return (abs(complex(g)) ** 2, hz, k, t)
+        return (abs(g) ** 2, hz, k, t)
 
     def span(self, k: int, t: float, m2: float) -> tuple[float, float, bool, bool]:
         """The contiguous span where |Γ|² ≤ m2 around the point (k, t), which lies inside it.
@@ -391,7 +423,7 @@ class _Model:
             return complex(self.g[0])
         k = min(max(int(np.searchsorted(self.f, hz, "right")) - 1, 0), self.n - 2)
         t = (hz - float(self.f[k])) / float(self.df[k])
-        return complex(self.g[k] + t * (self.g[k + 1] - self.g[k]))
+        return self._at(k, t)
 
 
 # -- resonances and Q -----------------------------------------------------------------
@@ -520,7 +552,7 @@ def _resonances(sweep: Sweep) -> tuple[Resonance, ...]:
 
 
 def _swr(mag: float) -> float:
-    return math.inf if mag >= 1.0 else (1.0 + mag) / (1.0 - mag)
+    return math.inf if mag >= 1.0 - RIM_TOL else (1.0 + mag) / (1.0 - mag)
 
 
 def _return_loss(mag: float) -> float:
@@ -528,7 +560,7 @@ def _return_loss(mag: float) -> float:
 
 
 def _mismatch_loss(mag: float) -> float:
-    return math.inf if mag >= 1.0 else -10.0 * math.log10(1.0 - mag * mag)
+    return math.inf if mag >= 1.0 - RIM_TOL else -10.0 * math.log10(1.0 - mag * mag)
 
 
 def _mag2_of_swr(s: float) -> float:
