@@ -118,3 +118,49 @@ def test_offline_upload_waits_on_the_device_then_sends(page: Any, context: Any, 
     assert [s["filename"] for s in new] == ["hilltop-offline.s1p"]
     # The only errors are the refused request while offline.
     assert all("ERR_INTERNET_DISCONNECTED" in e for e in page_log.errors), page_log.errors
+
+
+# Chromium does not show a FormData body with a file to Playwright, so the page itself
+# records every itu_region it puts into a form.
+RECORD_REGIONS = """(() => {
+  window.__regions = [];
+  const append = FormData.prototype.append;
+  FormData.prototype.append = function (k, v, ...rest) {
+    if (k === "itu_region") window.__regions.push(String(v));
+    return append.call(this, k, v, ...rest);
+  };
+})();"""
+
+
+def test_preview_uses_the_band_plan_of_the_antennas_site(page: Any, page_log: PageLog,
+                                                         club: Club) -> None:
+    ant = next(a for a in club.antennas if a["name"] == "40 m vertical")
+    site = next(s for s in club.sites if s["id"] == ant["site_id"])
+    # 7.21–7.29 MHz is inside 40 m in Region 2 (to 7.3 MHz) and outside every Region 1
+    # band (40 m ends at 7.2 MHz): ITU RR Article 5, as rf/bands.py.
+    data = touchstone(7.25e6, r_ohm=45.0, q=9.0, start_hz=7.21e6, stop_hz=7.29e6)
+    page.add_init_script(RECORD_REGIONS)
+    _open_upload(page, ant["id"])
+    card = _drop(page, "top-of-40m.s1p", data)
+    card.locator(".file-state.previewed").wait_for()
+    assert page.evaluate("window.__regions") == [str(site["itu_region"])] == ["1"]
+    assert card.locator(".preview table").count() == 0  # no Region 1 band in the sweep
+
+    # The same antenna on a Region 2 site (the sites list rewritten in this page only).
+    def as_region_2(route: Any) -> None:
+        body = route.fetch().json()
+        for s in body["items"] if isinstance(body, dict) else body:
+            if s["id"] == site["id"]:
+                s["itu_region"] = 2
+        route.fulfill(json=body)
+
+    page.route("**/api/v1/sites", as_region_2)
+    page.goto("about:blank")  # a new document: the sites are fetched again
+    _open_upload(page, ant["id"])
+    card = _drop(page, "top-of-40m.s1p", data)
+    card.locator(".file-state.previewed").wait_for()
+    assert page.evaluate("window.__regions") == ["2"]
+    rows = card.locator(".preview tbody tr")
+    assert rows.count() == 1 and rows.first.locator("td").first.inner_text() == "40m"
+    shot(page, "upload-preview-region-2")
+    assert page_log.errors == []

@@ -112,9 +112,9 @@ class FileItem {
   /** The antenna's band plan and, for a line-input sweep, its feedline, for the preview. */
   previewFields() {
     const a = this.ctx.antennaById.get(Number(this.antenna.value));
-    // The site's band plan region would go here too (itu_region), but the analyze route
-    // refuses it as a form string today; the server's default region is used meanwhile.
-    const out = { reference_plane: this.plane.value };
+    // The band plan of the antenna's site; with no antenna chosen yet, the server's default.
+    const site = a ? this.ctx.siteById.get(a.site_id) : undefined;
+    const out = { reference_plane: this.plane.value, itu_region: site?.itu_region };
     if (this.plane.value === "line_input" && a?.feedline) {
       Object.assign(out, { cable_type_id: a.feedline.cable_type.id, length_m: a.feedline.length_m,
         connectors: a.feedline.connectors });
