@@ -78,6 +78,13 @@ def test_rectangular_and_trend_plots_are_drawn(page: Any, page_log: PageLog, clu
     assert any(s["type"] == "rect" and 13.9 < s["x0"] < 14.1 for s in shapes), shapes
     trend = page.evaluate("document.getElementById('trend-plot').data[0]")
     assert len(trend["x"]) == len(club.sweeps[ant["id"]])
+    # A steady antenna's trend is drawn on at least the span the verdict watches for
+    # (min SWR rise 0.5, services/thresholds.py), never below SWR 1: noise looks flat.
+    ys = [v for v in trend["y"] if v is not None]
+    y_range = page.evaluate("document.getElementById('trend-plot').layout.yaxis.range")
+    assert max(ys) - min(ys) < 0.5, ys  # the demo yagi is untouched by the storms
+    assert y_range[1] - y_range[0] >= 0.5 and y_range[0] >= 1.0 - 0.05
+    assert y_range[0] <= min(ys) and max(ys) <= y_range[1]
     # Every plot has its CSV button.
     assert page.locator("button[data-csv]").count() >= 5
     with page.expect_download() as dl:

@@ -43,7 +43,7 @@ export async function drawDtf(el, current, baseline, { filename = "dtf", lineEnd
   } : {};
   const layout = baseLayout({
     ...ends,
-    margin: { l: 56, r: 16, t: 22, b: 44 },
+    margin: { l: 56, r: 16, t: 22, b: 68 },
     xaxis: { title: { text: "Distance along the line (m)" }, gridcolor: "#ece8df" },
     yaxis: { title: { text: "Reflection (dB)" }, gridcolor: "#ece8df" },
   });

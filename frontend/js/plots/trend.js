@@ -7,18 +7,36 @@ import { VERDICT_COLOURS, VERDICT_SYMBOLS, normalVerdict } from "../verdict.js";
 import { baseLayout, config, loadPlotly, toCsv } from "./common.js";
 
 // The trend metrics of the API (mastwatch.rf.metric_table), with display scaling.
+// `span` is the smallest y range drawn (absolute, or `rel` × the mean; not below `floor`):
+// the size of the change the verdict watches for (services/thresholds.py), so a healthy
+// antenna's sweep-to-sweep noise looks flat instead of filling the plot like a drift.
 export const TREND_METRICS = {
-  min_swr: { label: "Min SWR", unit: "", scale: 1 },
-  min_swr_hz: { label: "Frequency of min SWR", unit: "MHz", scale: 1e-6 },
-  resonance: { label: "Resonance", unit: "MHz", scale: 1e-6 },
-  bandwidth_2: { label: "SWR≤2 bandwidth", unit: "kHz", scale: 1e-3 },
-  swr_center: { label: "SWR at band centre", unit: "", scale: 1 },
-  return_loss_center: { label: "Return loss at centre", unit: "dB", scale: 1 },
-  r_center: { label: "R at centre", unit: "Ω", scale: 1 },
-  x_center: { label: "X at centre", unit: "Ω", scale: 1 },
-  q: { label: "Q", unit: "", scale: 1 },
-  usable_fraction_2: { label: "Band usable at SWR≤2", unit: "%", scale: 100 },
+  min_swr: { label: "Min SWR", unit: "", scale: 1, span: 0.5, floor: 1 },
+  min_swr_hz: { label: "Frequency of min SWR", unit: "MHz", scale: 1e-6, rel: 0.015 },
+  resonance: { label: "Resonance", unit: "MHz", scale: 1e-6, rel: 0.015 },
+  bandwidth_2: { label: "SWR≤2 bandwidth", unit: "kHz", scale: 1e-3, rel: 0.3 },
+  swr_center: { label: "SWR at band centre", unit: "", scale: 1, span: 0.5, floor: 1 },
+  return_loss_center: { label: "Return loss at centre", unit: "dB", scale: 1, span: 3 },
+  r_center: { label: "R at centre", unit: "Ω", scale: 1, span: 10 },
+  x_center: { label: "X at centre", unit: "Ω", scale: 1, span: 10 },
+  q: { label: "Q", unit: "", scale: 1, rel: 0.3 },
+  usable_fraction_2: { label: "Band usable at SWR≤2", unit: "%", scale: 100, span: 25, floor: 0 },
 };
+
+/** The y range to draw: the data's, widened to the metric's smallest span. */
+export function trendRange(values, spec) {
+  const ys = values.filter((v) => v !== null && Number.isFinite(v));
+  if (!ys.length) return undefined;
+  const lo = Math.min(...ys), hi = Math.max(...ys);
+  const mean = ys.reduce((a, b) => a + b, 0) / ys.length;
+  const least = spec.span ?? (spec.rel ? spec.rel * Math.abs(mean) : 0);
+  if (!(least > 0) || hi - lo >= least) return undefined; // plotly's own autorange
+  const pad = 0.08 * least; // room for the markers
+  const mid = (lo + hi) / 2;
+  // never below what the metric can be (an SWR of 1), so the axis does not show the impossible
+  const bottom = Math.max(mid - least / 2, spec.floor ?? -Infinity);
+  return [bottom - pad, bottom + least + pad];
+}
 
 const EVENT_STYLE = {
   storm: { color: "#a8382f", width: 3, dash: "solid" },
@@ -66,7 +84,8 @@ export async function drawTrend(el, trend, { metric, statusById = {}, onOpen, fi
   }
   const layout = baseLayout({
     xaxis: { type: "date", gridcolor: "#ece8df" },
-    yaxis: { title: { text: `${spec.label}${spec.unit ? ` (${spec.unit})` : ""}` }, gridcolor: "#ece8df" },
+    yaxis: { title: { text: `${spec.label}${spec.unit ? ` (${spec.unit})` : ""}` }, gridcolor: "#ece8df",
+      ...(trendRange(y, spec) ? { range: trendRange(y, spec), autorange: false } : {}) },
     shapes, annotations, showlegend: false, margin: { l: 60, r: 16, t: 24, b: 40 },
   });
   await Plotly.react(el, data, layout, config(filename));
