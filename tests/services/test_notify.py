@@ -1,8 +1,10 @@
 """Notifications on a verdict change: queued with the upload, delivered after it.
 
-A local HTTP receiver (http.server on 127.0.0.1, in a thread) and a local SMTP server
-(aiosmtpd's Controller on 127.0.0.1) stand in for the club's endpoints. The signature
-is checked against Python's own ``hmac`` (RFC 2104 HMAC with SHA-256).
+Rows are queued only for the channels the app's settings configure; with none, nothing
+is queued and the verdict is still stored with the sweep. A local HTTP receiver
+(http.server on 127.0.0.1, in a thread) and a local SMTP server (aiosmtpd's Controller on
+127.0.0.1) stand in for the club's endpoints. The signature is checked against Python's
+own ``hmac`` (RFC 2104 HMAC with SHA-256).
 """
 
 from __future__ import annotations
@@ -12,7 +14,8 @@ import hmac
 import json
 import socket
 import threading
-from collections.abc import Iterator
+from collections.abc import AsyncIterator, Iterator
+from contextlib import asynccontextmanager
 from datetime import timedelta
 from email import message_from_bytes, policy
 from http.server import BaseHTTPRequestHandler, HTTPServer
@@ -21,13 +24,22 @@ from typing import Any
 import httpx
 import pytest
 from fastapi import FastAPI
-from sqlalchemy import select
+from sqlalchemy import Engine, select
 
+from mastwatch.api.app import create_app
+from mastwatch.db.engine import make_sessionmaker
 from mastwatch.db.models import Notification
 from mastwatch.db.models import Sweep as SweepRow
 from mastwatch.db.types import utcnow
-from mastwatch.services.notify import SIGNATURE_HEADER, deliver_pending, sign, verify
-from mastwatch.settings import Settings
+from mastwatch.services.notify import (
+    SIGNATURE_HEADER,
+    deliver_pending,
+    enabled_channels,
+    settings_of,
+    sign,
+    verify,
+)
+from mastwatch.settings import Settings, get_settings
 from tests.api.helpers import API, make_antenna, make_site, upload
 from tests.dbfixtures import rlc_touchstone
 
@@ -81,6 +93,21 @@ def _settings(base: Settings, **kw: Any) -> Settings:
     return Settings(database_url=base.database_url, data_dir=base.data_dir, **kw)
 
 
+# A webhook nobody listens on (port 9, discard): for tests that only look at the queue.
+UNHEARD = {"webhook_url": "http://127.0.0.1:9/hook", "webhook_secret": SECRET}
+
+
+@asynccontextmanager
+async def _app_with(
+    cfg: Settings, engine: Engine
+) -> AsyncIterator[tuple[FastAPI, httpx.AsyncClient]]:
+    """An app on ``cfg`` (its channels decide what is queued) and a client on it."""
+    app = create_app(cfg, engine=engine)
+    transport = httpx.ASGITransport(app=app)
+    async with httpx.AsyncClient(transport=transport, base_url="http://test") as c:
+        yield app, c
+
+
 async def _verdict_change(client: httpx.AsyncClient) -> int:
     """Baseline, then a sweep that turns the antenna from ok to watch. Returns its id."""
     site = await make_site(client)
@@ -108,45 +135,48 @@ def test_signature_is_rfc2104_hmac_sha256() -> None:
 
 @pytest.mark.anyio
 async def test_webhook_fails_twice_then_delivered_exactly_once(
-    client: httpx.AsyncClient, app: FastAPI, settings: Settings, receiver: Receiver
+    clean_db: Engine, settings: Settings, receiver: Receiver
 ) -> None:
-    sweep_id = await _verdict_change(client)
-    rows = _rows(app)
-    # Queued inside the upload: one row per channel, for the ok → watch change only.
-    assert [(r.channel, r.state) for r in rows] == [("webhook", "pending"), ("email", "pending")]
-    assert rows[0].payload["old_status"] == "ok" and rows[0].payload["new_status"] == "watch"
-
     cfg = _settings(settings, webhook_url=receiver.url, webhook_secret=SECRET)
-    waits: list[float] = []
-    with app.state.sessionmaker() as s:
-        report = deliver_pending(s, cfg, backoff_s=0.5, sleep=waits.append)
-    assert report.sent == [rows[0].id] and report.skipped == [rows[1].id]
-    assert waits == [0.5, 1.0]  # exponential backoff between the three attempts
-    assert len(receiver.requests) == 3 and len(receiver.delivered) == 1
-    body, headers = receiver.requests[-1]
-    assert verify(body, SECRET, headers[SIGNATURE_HEADER])
-    payload = json.loads(body)
-    assert payload["sweep"]["id"] == sweep_id
-    assert payload["reasons"][0].startswith("40m: resonance moved 180 kHz down")
+    async with _app_with(cfg, clean_db) as (app, client):
+        sweep_id = await _verdict_change(client)
+        rows = _rows(app)
+        # Queued inside the upload, for the ok → watch change only, and only for the
+        # configured channel (e-mail is off, so it gets no row).
+        assert [(r.channel, r.state) for r in rows] == [("webhook", "pending")]
+        assert rows[0].payload["old_status"] == "ok" and rows[0].payload["new_status"] == "watch"
 
-    # A second run sends nothing again: delivered once.
-    with app.state.sessionmaker() as s:
-        again = deliver_pending(s, cfg, now=utcnow() + timedelta(days=1), sleep=waits.append)
-    assert again.sent == [] and len(receiver.requests) == 3
-    states = [(r.channel, r.state, r.attempts) for r in _rows(app)]
-    assert states == [("webhook", "sent", 1), ("email", "skipped", 0)]
-    # The upload is unaffected.
-    r = await client.get(f"{API}/sweeps/{sweep_id}")
-    assert r.status_code == 200 and r.json()["status"] == "watch"
+        waits: list[float] = []
+        with app.state.sessionmaker() as s:
+            report = deliver_pending(s, cfg, backoff_s=0.5, sleep=waits.append)
+        assert report.sent == [rows[0].id] and report.skipped == []
+        assert waits == [0.5, 1.0]  # exponential backoff between the three attempts
+        assert len(receiver.requests) == 3 and len(receiver.delivered) == 1
+        body, headers = receiver.requests[-1]
+        assert verify(body, SECRET, headers[SIGNATURE_HEADER])
+        payload = json.loads(body)
+        assert payload["sweep"]["id"] == sweep_id
+        assert payload["reasons"][0].startswith("40m: resonance moved 180 kHz down")
+
+        # A second run sends nothing again: delivered once.
+        with app.state.sessionmaker() as s:
+            again = deliver_pending(s, cfg, now=utcnow() + timedelta(days=1), sleep=waits.append)
+        assert again.sent == [] and len(receiver.requests) == 3
+        states = [(r.channel, r.state, r.attempts) for r in _rows(app)]
+        assert states == [("webhook", "sent", 1)]
+        # The upload is unaffected.
+        r = await client.get(f"{API}/sweeps/{sweep_id}")
+        assert r.status_code == 200 and r.json()["status"] == "watch"
 
 
 @pytest.mark.anyio
 async def test_a_dead_receiver_is_retried_later_and_never_loses_the_upload(
-    client: httpx.AsyncClient, app: FastAPI, settings: Settings
+    clean_db: Engine, settings: Settings
 ) -> None:
     with Receiver(fail=10_000) as dead:
-        sweep_id = await _verdict_change(client)
         cfg = _settings(settings, webhook_url=dead.url, webhook_secret=SECRET)
+        async with _app_with(cfg, clean_db) as (app, client):
+            sweep_id = await _verdict_change(client)
         t0 = utcnow()
         with app.state.sessionmaker() as s:
             report = deliver_pending(
@@ -178,9 +208,7 @@ def _free_port() -> int:
 
 
 @pytest.mark.anyio
-async def test_email_through_a_local_smtp_server(
-    client: httpx.AsyncClient, app: FastAPI, settings: Settings
-) -> None:
+async def test_email_through_a_local_smtp_server(clean_db: Engine, settings: Settings) -> None:
     from aiosmtpd.controller import Controller
 
     received: list[bytes] = []
@@ -194,7 +222,6 @@ async def test_email_through_a_local_smtp_server(
     controller = Controller(Handler(), hostname="127.0.0.1", port=port)
     controller.start()
     try:
-        await _verdict_change(client)
         cfg = _settings(
             settings,
             smtp_host="127.0.0.1",
@@ -202,11 +229,14 @@ async def test_email_through_a_local_smtp_server(
             smtp_from="mastwatch@q0hrs.invalid",
             smtp_to=["keeper@q0hrs.invalid"],
         )
-        with app.state.sessionmaker() as s:
-            report = deliver_pending(s, cfg)
+        async with _app_with(cfg, clean_db) as (app, client):
+            await _verdict_change(client)
+            assert [r.channel for r in _rows(app)] == ["email"]  # the webhook is off
+            with app.state.sessionmaker() as s:
+                report = deliver_pending(s, cfg)
     finally:
         controller.stop()
-    assert len(report.sent) == 1 and len(report.skipped) == 1  # e-mail sent, webhook off
+    assert len(report.sent) == 1 and report.skipped == []
     (raw,) = received
     msg = message_from_bytes(raw, policy=policy.default)
     assert msg["To"] == "keeper@q0hrs.invalid"
@@ -215,14 +245,56 @@ async def test_email_through_a_local_smtp_server(
 
 
 @pytest.mark.anyio
-async def test_no_change_no_notification(client: httpx.AsyncClient, app: FastAPI) -> None:
-    site = await make_site(client)
-    ant = await make_antenna(client, site["id"])
-    r = await upload(client, ant["id"], rlc_touchstone(7.1e6), measured_at="2025-04-02T10:00")
-    await client.put(f"{API}/antennas/{ant['id']}/baseline", json={"sweep_id": r.json()["id"]})
-    await upload(client, ant["id"], rlc_touchstone(7.101e6), measured_at="2025-06-02T10:00")
-    # unknown → ok when the baseline was set, then ok → ok: neither is news.
-    assert _rows(app) == []
+async def test_no_change_no_notification(clean_db: Engine, settings: Settings) -> None:
+    async with _app_with(_settings(settings, **UNHEARD), clean_db) as (app, client):
+        site = await make_site(client)
+        ant = await make_antenna(client, site["id"])
+        r = await upload(client, ant["id"], rlc_touchstone(7.1e6), measured_at="2025-04-02T10:00")
+        first = r.json()["id"]
+        await client.put(f"{API}/antennas/{ant['id']}/baseline", json={"sweep_id": first})
+        await upload(client, ant["id"], rlc_touchstone(7.101e6), measured_at="2025-06-02T10:00")
+        # unknown → ok when the baseline was set, then ok → ok: neither is news.
+        assert _rows(app) == []
+
+
+@pytest.mark.anyio
+async def test_no_channel_configured_queues_nothing_and_keeps_the_verdict(
+    client: httpx.AsyncClient, app: FastAPI, settings: Settings
+) -> None:
+    assert enabled_channels(settings) == ()  # the defaults: webhook and e-mail both off
+    sweep_id = await _verdict_change(client)
+    assert _rows(app) == []  # nothing waits for a worker that never runs
+    r = await client.get(f"{API}/sweeps/{sweep_id}")
+    assert r.status_code == 200 and r.json()["status"] == "watch"
+    assert r.json()["status_reasons"][0].startswith("40m: resonance moved 180 kHz down")
+
+
+@pytest.mark.anyio
+async def test_rows_of_a_channel_switched_off_are_skipped_when_the_app_starts(
+    clean_db: Engine, settings: Settings
+) -> None:
+    async with _app_with(_settings(settings, **UNHEARD), clean_db) as (app, client):
+        await _verdict_change(client)
+    assert [(r.channel, r.state) for r in _rows(app)] == [("webhook", "pending")]
+    # Restarted with the webhook removed from the settings: no worker will ever run.
+    off = create_app(settings, engine=clean_db)
+    async with off.router.lifespan_context(off):
+        rows = [(r.channel, r.state, r.last_error) for r in _rows(off)]
+    assert rows == [("webhook", "skipped", "webhook is not configured")]
+
+
+def test_a_session_without_settings_uses_the_environment(
+    clean_db: Engine, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # The CLI's sessions (recompute, demo) carry no settings: the environment decides.
+    monkeypatch.setenv("MASTWATCH_WEBHOOK_URL", UNHEARD["webhook_url"])
+    monkeypatch.setenv("MASTWATCH_WEBHOOK_SECRET", SECRET)
+    get_settings.cache_clear()
+    try:
+        with make_sessionmaker(clean_db)() as s:
+            assert enabled_channels(settings_of(s)) == ("webhook",)
+    finally:
+        get_settings.cache_clear()
 
 
 @pytest.mark.anyio

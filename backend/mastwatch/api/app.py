@@ -1,21 +1,25 @@
 """The app factory: ``create_app(settings)`` builds a FastAPI app on its own database.
 
     create_app(settings)
-      ├── engine + sessionmaker on app.state (one per app: tests build many)
+      ├── engine + sessionmaker on app.state (one per app: tests build many); its
+      │                 sessions carry the settings (services/notify.bind_settings)
       ├── error handlers (api/errors.py): one JSON shape for every 4xx
       ├── BodyLimit middleware (api/limits.py)
       ├── GZip middleware: bodies of GZIP_MIN_BYTES or more, gzipped for clients that
-      │                    accept it (plot arrays shrink several times; httpx and
-      │                    browsers decode it, so a download still yields its bytes)
+      │                    accept it (plot arrays about halve; httpx and browsers
+      │                    decode it, so a download still yields its exact bytes)
       ├── /api/v1/...   records routes (api/routes/*), plus health (F) and tools (C)
       │                 routes when their modules exist
       ├── /healthz      process, database and migrations
       └── /             the browser frontend (api/frontend.py) when present
 
 On startup (lifespan) the app refuses to run on a database that is not at the
-migrations' head (saying to run ``mastwatch db upgrade``) and syncs the built-in
-cable types from ``mastwatch.rf.lines.CABLES``. In-process test clients skip the
-lifespan: tests call :func:`prepare_database` themselves (tests/conftest.py does).
+migrations' head (saying to run ``mastwatch db upgrade``), syncs the built-in
+cable types from ``mastwatch.rf.lines.CABLES`` and marks pending notifications of
+channels that are not configured ``skipped`` (services/notify.py). Its sessions carry
+the settings, so an upload queues notifications only for configured channels.
+In-process test clients skip the lifespan: tests call :func:`prepare_database`
+themselves (tests/conftest.py does).
 
 Run with uvicorn: ``uvicorn --factory mastwatch.api.app:app_from_env`` or ``mastwatch serve``.
 """
@@ -36,6 +40,7 @@ from mastwatch.api.errors import install_error_handlers
 from mastwatch.api.limits import BodyLimit
 from mastwatch.db.engine import make_engine, make_sessionmaker
 from mastwatch.db.migrate import check_current
+from mastwatch.services import notify
 from mastwatch.settings import Settings, get_settings
 
 API_PREFIX = "/api/v1"
@@ -84,6 +89,8 @@ def create_app(settings: Settings, *, engine: Engine | None = None) -> FastAPI:
     @asynccontextmanager
     async def lifespan(app: FastAPI) -> AsyncIterator[None]:
         prepare_database(engine)
+        with app.state.sessionmaker() as session:
+            notify.skip_unconfigured(session, settings)
         yield
         engine.dispose()
 
@@ -99,6 +106,7 @@ def create_app(settings: Settings, *, engine: Engine | None = None) -> FastAPI:
     app.state.settings = settings
     app.state.engine = engine
     app.state.sessionmaker = make_sessionmaker(engine)
+    notify.bind_settings(app.state.sessionmaker, settings)
     install_error_handlers(app)
     app.add_middleware(BodyLimit, file_limit=settings.max_upload_bytes)
     # Added last, so outermost: it sees every response, including BodyLimit's 413.

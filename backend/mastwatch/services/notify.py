@@ -8,12 +8,20 @@
 
 Queueing inside the upload's transaction and sending after the commit means a failed
 delivery never loses or blocks the upload, and an upload that rolls back sends nothing.
+Only channels configured in the settings get a row: with neither a webhook nor SMTP set
+up nothing is queued (the verdict itself is stored with the sweep all the same), so no
+row waits for a worker that never runs, and switching a channel on later does not send
+a backlog of old news. The settings come from the session (``bind_settings``: the app
+binds its own); a session without them, as in the CLI, uses :func:`get_settings`.
+
 Each delivery run claims due rows with a conditional UPDATE (a lease on
 ``next_attempt_at``), so two workers never send the same row; a row is marked ``sent``
 once, after its channel accepted it. Failures are logged and retried: within a run up to
 ``attempts`` times with exponential backoff (``backoff_s`` · 2ⁿ), then again in later
 runs (``retry_after_s`` · 2ⁿ) until ``MAX_ROUNDS`` runs failed (state ``failed``).
-A channel that is not configured marks its rows ``skipped`` (both are off by default).
+Rows of a channel switched off after they were queued are marked ``skipped``: by a
+delivery run, and by :func:`skip_unconfigured` when the app starts (both channels are
+off by default).
 
 Webhook body: the JSON payload, UTF-8, keys sorted; header ``X-Mastwatch-Signature:
 sha256=<hex HMAC-SHA256 of the exact body with MASTWATCH_WEBHOOK_SECRET>`` (receivers
@@ -36,13 +44,13 @@ from typing import Any
 
 import httpx
 from sqlalchemy import select, update
-from sqlalchemy.orm import Session
+from sqlalchemy.orm import Session, sessionmaker
 
 from mastwatch.db.models import Antenna, Notification
 from mastwatch.db.models import Sweep as SweepRow
 from mastwatch.db.types import utcnow
 from mastwatch.services.health import SAFETY_CAUTIONS
-from mastwatch.settings import Settings
+from mastwatch.settings import Settings, get_settings
 
 log = logging.getLogger(__name__)
 
@@ -50,6 +58,7 @@ SIGNATURE_HEADER = "X-Mastwatch-Signature"
 CHANNELS = ("webhook", "email")
 MAX_ROUNDS = 8
 LEASE = timedelta(minutes=5)
+SETTINGS_INFO_KEY = "mastwatch.settings"  # in Session.info: whose channels to queue for
 SAFETY_NOTE = " ".join(SAFETY_CAUTIONS)
 
 
@@ -70,6 +79,33 @@ def sign(body: bytes, secret: str) -> str:
 def verify(body: bytes, secret: str, header: str) -> bool:
     """Receiver side: does ``header`` sign ``body``? (constant-time comparison)"""
     return hmac.compare_digest(sign(body, secret), header)
+
+
+# -- which channels are on ---------------------------------------------------------------
+
+
+def channel_enabled(settings: Settings, channel: str) -> bool:
+    if channel == "webhook":
+        return bool(settings.webhook_url)
+    if channel == "email":
+        return bool(settings.smtp_host and settings.smtp_to)
+    return False
+
+
+def enabled_channels(settings: Settings) -> tuple[str, ...]:
+    """The channels these settings can deliver on, in CHANNELS order (may be empty)."""
+    return tuple(c for c in CHANNELS if channel_enabled(settings, c))
+
+
+def bind_settings(maker: sessionmaker[Session], settings: Settings) -> None:
+    """Sessions from ``maker`` queue notifications for the channels of ``settings``."""
+    maker.configure(info={SETTINGS_INFO_KEY: settings})
+
+
+def settings_of(session: Session) -> Settings:
+    """The settings bound to ``session``, else those of the environment (the CLI's)."""
+    bound = session.info.get(SETTINGS_INFO_KEY)
+    return bound if isinstance(bound, Settings) else get_settings()
 
 
 # -- queueing (inside the upload transaction) -------------------------------------------
@@ -106,7 +142,11 @@ def queue_verdict_change(
     new_status: str,
     reasons: list[str],
 ) -> list[Notification]:
-    """Add one notification row per channel (not committed: the caller's transaction)."""
+    """Add one notification row per configured channel (not committed: the caller's
+    transaction). No channel configured: nothing is added and ``[]`` returned."""
+    channels = enabled_channels(settings_of(session))
+    if not channels:
+        return []
     payload = verdict_payload(antenna, sweep, old_status, new_status, reasons)
     rows = [
         Notification(
@@ -118,10 +158,29 @@ def queue_verdict_change(
             attempts=0,
             next_attempt_at=utcnow(),
         )
-        for channel in CHANNELS
+        for channel in channels
     ]
     session.add_all(rows)
     return rows
+
+
+def skip_unconfigured(session: Session, settings: Settings) -> int:
+    """Mark ``skipped`` every pending row of a channel that ``settings`` has off (rows
+    queued before it was switched off, or before queueing checked the settings); commits.
+    Returns how many rows were marked."""
+    marked = 0
+    for channel in CHANNELS:
+        if channel_enabled(settings, channel):
+            continue
+        result = session.execute(
+            update(Notification)
+            .where(Notification.state == "pending", Notification.channel == channel)
+            .values(state="skipped", last_error=f"{channel} is not configured")
+            .execution_options(synchronize_session=False)
+        )
+        marked += getattr(result, "rowcount", 0) or 0
+    session.commit()
+    return marked
 
 
 # -- channels -----------------------------------------------------------------------------
@@ -195,14 +254,6 @@ def send_email(settings: Settings, payload: dict[str, Any], timeout_s: float = 1
             smtp.send_message(email_message(settings, payload))
     except (OSError, smtplib.SMTPException) as exc:
         raise DeliveryError(f"e-mail via {settings.smtp_host}: {exc}") from exc
-
-
-def channel_enabled(settings: Settings, channel: str) -> bool:
-    if channel == "webhook":
-        return bool(settings.webhook_url)
-    if channel == "email":
-        return bool(settings.smtp_host and settings.smtp_to)
-    return False
 
 
 # -- delivery (after the commit) ----------------------------------------------------------
