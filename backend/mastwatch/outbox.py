@@ -68,7 +68,7 @@ class PushResult:
     """What happened to one entry during a push."""
 
     entry: OutboxEntry
-    outcome: Literal["created", "duplicate", "rejected", "unreachable"]
+    outcome: Literal["created", "duplicate", "rejected", "unreachable", "refused"]
     detail: str = ""
     sweep_id: int | None = None
 
@@ -186,6 +186,13 @@ class Outbox:
                         entry, outcome, sweep_id=sweep_id if isinstance(sweep_id, int) else None
                     )
                 )
+            elif response.status_code in (401, 403):
+                # The keeper token is missing or wrong: not the file's fault. Keep every
+                # entry waiting and stop; the next push with the token sends them.
+                self._save(entry)
+                detail = str(body.get("detail") or f"HTTP {response.status_code}")
+                results.append(PushResult(entry, "refused", detail))
+                break
             elif 400 <= response.status_code < 500:
                 detail = str(body.get("detail") or response.text[:200])
                 if body.get("line") is not None:

@@ -12,7 +12,7 @@ import zoneinfo
 from functools import lru_cache
 from pathlib import Path
 
-from pydantic import Field, field_validator, model_validator
+from pydantic import Field, SecretStr, field_validator, model_validator
 from pydantic_settings import BaseSettings, SettingsConfigDict
 
 from mastwatch.rf.limits import MAX_FILE_BYTES
@@ -51,6 +51,13 @@ class Settings(BaseSettings):
     demo: bool = Field(
         default=False,
         description="Demo mode: relaxes the checks that protect a real installation.",
+    )
+    keeper_token: SecretStr | None = Field(
+        default=None,
+        description=(
+            "Shared secret the keepers send (Authorization: Bearer ...) to change records; "
+            "reading needs none. Unset: anyone who reaches the server may change them."
+        ),
     )
     stale_after_days: int = Field(
         default=180,

@@ -46,8 +46,56 @@ async function parse(response) {
   return body;
 }
 
-export async function request(method, path, { query, json, form, signal } = {}) {
-  const init = { method, signal, headers: { Accept: "application/json" } };
+// -- the keeper token (backend api/auth.py) ---------------------------------------------
+// Reads never need it. A change refused with 401 asks the shell for the token (a dialog,
+// see main.js), keeps it in this browser and sends the request once more.
+const TOKEN_KEY = "mastwatch.keeperToken";
+let askToken = null;
+
+/** Register the function that asks for the token: ({wrong}) => Promise<string|null>. */
+export function onTokenNeeded(fn) { askToken = fn; }
+
+export function keeperToken() {
+  try { return window.localStorage.getItem(TOKEN_KEY); } catch { return null; }
+}
+
+export function setKeeperToken(token) {
+  try {
+    if (token) window.localStorage.setItem(TOKEN_KEY, token);
+    else window.localStorage.removeItem(TOKEN_KEY);
+  } catch { /* storage disabled: the token lasts for this request only */ }
+}
+
+function tokenHeaders() {
+  const token = keeperToken();
+  return token ? { Authorization: `Bearer ${token}` } : {};
+}
+
+/** Run send(headers); on a 401 ask for the token once and send again. */
+async function withToken(send) {
+  try {
+    return await send(tokenHeaders());
+  } catch (err) {
+    if (!(err instanceof ApiError) || err.status !== 401 || !askToken) throw err;
+    const token = await askToken({ wrong: Boolean(keeperToken()) });
+    if (!token) throw err;
+    setKeeperToken(token);
+    try {
+      return await send({ Authorization: `Bearer ${token}` });
+    } catch (again) {
+      if (again instanceof ApiError && again.status === 401) setKeeperToken(null);
+      throw again;
+    }
+  }
+}
+
+export async function request(method, path, options = {}) {
+  if (method === "GET" || method === "HEAD") return requestOnce(method, path, options, {});
+  return withToken((headers) => requestOnce(method, path, options, headers));
+}
+
+async function requestOnce(method, path, { query, json, form, signal } = {}, auth = {}) {
+  const init = { method, signal, headers: { Accept: "application/json", ...auth } };
   if (json !== undefined) {
     init.headers["Content-Type"] = "application/json";
     init.body = JSON.stringify(json);
@@ -121,6 +169,9 @@ export function uiConfig() {
   return configPromise;
 }
 
+/** GET /healthz: {status, database, revision, changes_need_token}. */
+export const serverStatus = () => fetch("/healthz", { headers: { Accept: "application/json" } }).then(parse);
+
 export async function has(feature) {
   const cfg = await uiConfig();
   return Boolean(cfg.features && cfg.features[feature]);
@@ -148,6 +199,10 @@ export async function analyze(file, extra = {}) {
  * Resolves {status, body}: 201 = stored, 200 = the same file was already on record.
  */
 export function upload(antennaId, file, fields, onProgress) {
+  return withToken((auth) => uploadOnce(antennaId, file, fields, onProgress, auth));
+}
+
+function uploadOnce(antennaId, file, fields, onProgress, auth) {
   return new Promise((resolve, reject) => {
     const form = new FormData();
     form.append("file", file, file.name);
@@ -155,6 +210,7 @@ export function upload(antennaId, file, fields, onProgress) {
     const xhr = new XMLHttpRequest();
     xhr.open("POST", `${BASE}/antennas/${antennaId}/sweeps`);
     xhr.setRequestHeader("Accept", "application/json");
+    for (const [k, v] of Object.entries(auth)) xhr.setRequestHeader(k, v);
     xhr.upload.onprogress = (e) => { if (e.lengthComputable && onProgress) onProgress(e.loaded / e.total); };
     xhr.onerror = () => reject(new ApiError("the server cannot be reached (offline?)", { offline: true }));
     xhr.onload = () => {

@@ -8,7 +8,9 @@
 //   #/check[/<site id>]      site check            pages/check.js
 //   #/manage/<what>          manage records        pages/manage.js
 
+import { onTokenNeeded } from "./api.js";
 import { clear, errorBox, h } from "./dom.js";
+import { askKeeperToken } from "./token.js";
 
 const ROUTES = [
   [/^\/?$/, "board", () => import("./pages/board.js")],
@@ -79,5 +81,6 @@ function setupShell() {
 }
 
 window.addEventListener("hashchange", route);
+onTokenNeeded(askKeeperToken);
 setupShell();
 route();

@@ -15,7 +15,12 @@ pytestmark = pytest.mark.anyio
 async def test_healthz_ok(client: httpx.AsyncClient) -> None:
     r = await client.get("/healthz")
     assert r.status_code == 200
-    assert r.json() == {"status": "ok", "database": "ok", "revision": migrate.head_revision()}
+    assert r.json() == {
+        "status": "ok",
+        "database": "ok",
+        "revision": migrate.head_revision(),
+        "changes_need_token": False,  # no MASTWATCH_KEEPER_TOKEN in the test settings
+    }
 
 
 async def test_healthz_behind_and_unreachable(tmp_path) -> None:

@@ -67,6 +67,7 @@ def _free_port() -> int:
 class LiveServer:
     url: str
     api: httpx.Client
+    app: Any = None  # the FastAPI app served (a test may swap app.state.settings)
 
 
 @pytest.fixture(scope="session")
@@ -96,7 +97,7 @@ def live_server(tmp_path_factory: pytest.TempPathFactory) -> Iterator[LiveServer
         time.sleep(0.05)
     base = f"http://127.0.0.1:{port}"
     with httpx.Client(base_url=base + "/api/v1", timeout=60) as client:
-        yield LiveServer(url=base, api=client)
+        yield LiveServer(url=base, api=client, app=app)
     server.should_exit = True
     thread.join(timeout=10)
 

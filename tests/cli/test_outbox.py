@@ -13,11 +13,13 @@ from pathlib import Path
 
 import httpx
 import pytest
+from sqlalchemy import Engine
 from typer.testing import CliRunner
 
 from mastwatch.cli import app as cli_app
 from mastwatch.outbox import Outbox, OutboxError
 from mastwatch.rf.errors import SweepFormatError
+from mastwatch.settings import Settings
 from tests.api.helpers import API, site_and_antenna
 from tests.dbfixtures import rlc_touchstone
 
@@ -174,3 +176,35 @@ def test_cli_add_and_list(tmp_path: Path) -> None:
     assert "bad.s1p: line 2:" in result.stderr
     listing = runner.invoke(cli_app, ["outbox", "list", "--dir", str(box)])
     assert listing.exit_code == 0 and "a.s1p" in listing.stdout and "waiting" in listing.stdout
+
+
+async def test_without_the_keeper_token_nothing_is_lost_and_a_push_with_it_sends_all(
+    settings: Settings, clean_db: Engine, tmp_path: Path
+) -> None:
+    # The token is a server setting (api/auth.py); a refusal is not the file's fault.
+    from pydantic import SecretStr
+
+    from mastwatch.api.app import create_app
+
+    app = create_app(
+        settings.model_copy(update={"keeper_token": SecretStr("t0ken")}), engine=clean_db
+    )
+    keeper = {"Authorization": "Bearer t0ken"}
+    transport = httpx.ASGITransport(app=app)
+    async with httpx.AsyncClient(transport=transport, base_url="http://test") as anon, \
+            httpx.AsyncClient(transport=transport, base_url="http://test", headers=keeper) as ok:
+        _, antenna = await site_and_antenna(ok)
+        box = Outbox(tmp_path / "outbox")
+        when = datetime(2026, 3, 1, 10, 0, tzinfo=UTC)
+        for name, f0 in (("a.s1p", 7.1e6), ("b.s1p", 7.05e6)):
+            box.add(_file(tmp_path, name, rlc_touchstone(f0)), antenna_id=antenna["id"],
+                    measured_at=when)
+
+        results = await box.push(anon)
+        assert [r.outcome for r in results] == ["refused"]  # stops at the first refusal
+        assert "keeper token" in results[0].detail
+        assert [e.rejected for e in box.entries()] == [None, None]  # both still waiting
+
+        results = await box.push(ok)
+        assert [r.outcome for r in results] == ["created", "created"]
+        assert box.entries() == []

@@ -108,13 +108,22 @@ def list_entries(directory: DirOption = None) -> None:
 def push(
     server: Annotated[str, typer.Option(help="The club server, e.g. http://clubhouse:8000.")],
     timeout: Annotated[float, typer.Option(help="Seconds to wait for each upload.")] = 60.0,
+    token: Annotated[
+        str | None,
+        typer.Option(
+            envvar="MASTWATCH_KEEPER_TOKEN",
+            help="The server's keeper token, when it has one.",
+            show_default=False,
+        ),
+    ] = None,
     directory: DirOption = None,
 ) -> None:
     """Send every waiting sweep. Safe to repeat: the server stores each file once."""
     box = _outbox(directory)
+    headers = {"Authorization": f"Bearer {token}"} if token else {}
 
     async def run() -> list:
-        async with httpx.AsyncClient(base_url=server, timeout=timeout) as client:
+        async with httpx.AsyncClient(base_url=server, timeout=timeout, headers=headers) as client:
             return await box.push(client)
 
     results = anyio.run(run)
@@ -127,7 +136,12 @@ def push(
         console.print(f"{r.outcome} {r.entry.filename}{where}{detail}", markup=False)
     left = len(box.entries())
     console.print(f"{left} left in the outbox")
-    if any(r.outcome in ("rejected", "unreachable") for r in results):
+    if any(r.outcome == "refused" for r in results):
+        console.print(
+            "the server wants the keeper token: pass --token or set MASTWATCH_KEEPER_TOKEN; "
+            "nothing was lost, every sweep is still waiting"
+        )
+    if any(r.outcome in ("rejected", "unreachable", "refused") for r in results):
         raise typer.Exit(1)
 
 

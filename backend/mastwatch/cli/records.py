@@ -116,6 +116,11 @@ def _serve(settings, host: str, port: int) -> None:  # settings: Settings
     except DatabaseNotCurrent as exc:
         _fail(f"not starting: {exc}")
     typer.echo(f"serving Mastwatch on http://{host}:{port}  (API docs: /api/docs)")
+    if settings.keeper_token is None:
+        typer.echo(
+            "note: MASTWATCH_KEEPER_TOKEN is not set, so anyone who reaches this server can "
+            "change the records; set it before serving beyond a trusted network"
+        )
     uvicorn.run(create_app(settings), host=host, port=port, log_level="info")
 
 

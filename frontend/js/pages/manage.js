@@ -212,5 +212,27 @@ export async function render(root, [tabName], query) {
   const edit = Number(query.get("edit")) || null;
   const nav = h("nav", { class: "tabs", "aria-label": "What to manage" },
     TABS.map(([key, label]) => h("a", { href: `#/manage/${key}`, class: "chip", "aria-current": key === tab ? "page" : null }, label)));
-  fill(root, h("h1", {}, "Manage records"), nav, ...(await RENDER[tab](edit)));
+  fill(root, h("h1", {}, "Manage records"), await whoMayChange(), nav, ...(await RENDER[tab](edit)));
+}
+
+/** Whether changes need the keeper token, and whether this browser keeps one. */
+async function whoMayChange() {
+  const status = await api.serverStatus().catch(() => null);
+  const box = h("div", { class: "panel small", id: "who-may-change" });
+  if (!status) return box;
+  if (!status.changes_need_token) {
+    fill(box, h("b", {}, "Open server: "), "anyone who reaches this server can change these records. ",
+      "Set MASTWATCH_KEEPER_TOKEN on the server before it is reachable beyond a trusted network.");
+    return box;
+  }
+  const show = () => {
+    if (api.keeperToken()) {
+      fill(box, "Changes need the keeper token; this browser keeps it. ",
+        h("button", { type: "button", onclick: () => { api.setKeeperToken(null); show(); } }, "Forget the token"));
+    } else {
+      fill(box, "Changes need the keeper token; it is asked for at the first change and kept in this browser.");
+    }
+  };
+  show();
+  return box;
 }

@@ -211,7 +211,8 @@ export async function render(root, _params, query) {
         await api.upload(entry.antennaId, offline.asFile(entry), entry.fields);
         await offline.drop(entry.id);
       } catch (err) {
-        if (err.offline) break;
+        // Offline, or no keeper token given: the file is not at fault, it keeps waiting.
+        if (err.offline || err.status === 401) break;
         await offline.drop(entry.id);
         list.prepend(h("div", { class: "file-card" }, h("span", { class: "fname" }, entry.name), errorBox(err)));
       }

@@ -30,4 +30,11 @@ def healthz(request: Request) -> JSONResponse:
         check_current(engine)
     except DatabaseNotCurrent as exc:
         return JSONResponse({**error_body(str(exc)), "database": "behind"}, status_code=503)
-    return JSONResponse({"status": "ok", "database": "ok", "revision": current_revision(engine)})
+    return JSONResponse(
+        {
+            "status": "ok",
+            "database": "ok",
+            "revision": current_revision(engine),
+            "changes_need_token": request.app.state.settings.keeper_token is not None,
+        }
+    )
