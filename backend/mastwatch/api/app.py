@@ -31,11 +31,12 @@ import importlib.util
 from collections.abc import AsyncIterator
 from contextlib import asynccontextmanager
 
-from fastapi import APIRouter, FastAPI
+from fastapi import APIRouter, Depends, FastAPI
 from sqlalchemy import Engine
 from starlette.middleware.gzip import GZipMiddleware
 
 from mastwatch import __version__
+from mastwatch.api.auth import require_keeper
 from mastwatch.api.errors import install_error_handlers
 from mastwatch.api.limits import BodyLimit
 from mastwatch.db.engine import make_engine, make_sessionmaker
@@ -73,7 +74,7 @@ def _module_exists(name: str) -> bool:
 
 
 def _api_router() -> APIRouter:
-    router = APIRouter(prefix=API_PREFIX)
+    router = APIRouter(prefix=API_PREFIX, dependencies=[Depends(require_keeper)])
     for name in CORE_ROUTERS + OPTIONAL_ROUTERS:
         module_name = f"mastwatch.api.routes.{name}"
         if name in OPTIONAL_ROUTERS and not _module_exists(module_name):
