@@ -9,7 +9,8 @@
       │                    accept it (plot arrays about halve; httpx and browsers
       │                    decode it, so a download still yields its exact bytes)
       ├── /api/v1/...   records routes (api/routes/*), plus health (F) and tools (C)
-      │                 routes when their modules exist
+      │                 routes when their modules exist; a change needs the keeper
+      │                 token when the server has one (api/auth.py)
       ├── /healthz      process, database and migrations
       └── /             the browser frontend (api/frontend.py) when present
 
