@@ -80,6 +80,13 @@ class Settings(BaseSettings):
         default_factory=list, description="Recipients of e-mail alerts (JSON list in env)."
     )
 
+    @field_validator("keeper_token", mode="before")
+    @classmethod
+    def _blank_is_unset(cls, value: object) -> object:
+        # An empty MASTWATCH_KEEPER_TOKEN= (e.g. from docker-compose's default) means "no
+        # token", never "the empty string is the token".
+        return None if isinstance(value, str) and not value.strip() else value
+
     @field_validator("timezone")
     @classmethod
     def _known_zone(cls, value: str) -> str:

@@ -95,3 +95,12 @@ async def test_healthz_says_whether_changes_need_the_token(
 async def test_without_a_token_setting_the_api_stays_open(client: httpx.AsyncClient) -> None:
     r = await client.post(f"{API}/sites", json={"name": "Hill", "itu_region": 1})
     assert r.status_code == 201, r.text
+
+
+def test_an_empty_token_setting_means_no_token(monkeypatch: pytest.MonkeyPatch) -> None:
+    monkeypatch.setenv("MASTWATCH_KEEPER_TOKEN", "  ")
+    assert Settings().keeper_token is None
+    monkeypatch.setenv("MASTWATCH_KEEPER_TOKEN", TOKEN)
+    token = Settings().keeper_token
+    assert token is not None and token.get_secret_value() == TOKEN
+    assert TOKEN not in repr(Settings())  # a secret stays out of logs and tracebacks
