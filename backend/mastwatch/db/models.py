@@ -232,7 +232,10 @@ class Sweep(Base):
 
     __table_args__ = (
         UniqueConstraint("antenna_id", "sha256"),
-        Index("ix_sweep_antenna_measured", "antenna_id", "measured_at"),
+        # Covers the health hook's reads of an antenna's timeline (previous sweep, the
+        # drift window: id and status by time): on SQLite, status sits after the array
+        # blobs in the row, and reading it from the table walks their overflow pages.
+        Index("ix_sweep_antenna_measured", "antenna_id", "measured_at", "id", "status"),
         CheckConstraint(f"reference_plane IN ({_in(REFERENCE_PLANES)})", name="reference_plane"),
         CheckConstraint(f"status IS NULL OR status IN ({_in(STATUSES)})", name="status"),
     )

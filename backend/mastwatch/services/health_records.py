@@ -191,22 +191,23 @@ def drift_reasons(
     """Change-point reasons over the metric series since the baseline, up to ``row``.
 
     At most the last DRIFT_WINDOW sweeps: bounded work per upload however long the
-    record; the self-starting chart needs no fixed start.
+    record; the self-starting chart needs no fixed start. Two indexed queries: the
+    window's sweeps (id, status) on ``ix_sweep_antenna_measured``, then their metrics
+    rows of the antenna's bands on the trend index (no join, no IN list of ids).
     """
-    window = list(
-        session.scalars(
-            select(SweepRow.id)
-            .where(
-                SweepRow.antenna_id == antenna.id,
-                SweepRow.measured_at >= base.measured_at,
-                SweepRow.measured_at <= row.measured_at,
-            )
-            .order_by(SweepRow.measured_at.desc(), SweepRow.id.desc())
-            .limit(DRIFT_WINDOW)
+    window = session.execute(
+        select(SweepRow.id, SweepRow.status, SweepRow.measured_at)
+        .where(
+            SweepRow.antenna_id == antenna.id,
+            SweepRow.measured_at >= base.measured_at,
+            SweepRow.measured_at <= row.measured_at,
         )
-    )
+        .order_by(SweepRow.measured_at.desc(), SweepRow.id.desc())
+        .limit(DRIFT_WINDOW)
+    ).all()
     if len(window) < MIN_POINTS:
         return []
+    status_of = {w.id: w.status for w in window}
     query = (
         select(
             SweepMetrics.sweep_id,
@@ -217,18 +218,25 @@ def drift_reasons(
             SweepMetrics.min_swr,
             SweepMetrics.swr_center,
             SweepMetrics.resonance_hz,
-            SweepRow.status,
         )
-        .join(SweepRow, SweepRow.id == SweepMetrics.sweep_id)
-        .where(SweepMetrics.sweep_id.in_(window), SweepMetrics.plane == plane)
-        .order_by(SweepMetrics.measured_at, SweepMetrics.sweep_id)
+        .where(
+            SweepMetrics.antenna_id == antenna.id,
+            SweepMetrics.plane == plane,
+            # The oldest sweep of the window bounds the range; rows of sweeps sharing
+            # that instant but outside the window are dropped below.
+            SweepMetrics.measured_at >= window[-1].measured_at,
+            SweepMetrics.measured_at <= row.measured_at,
+        )
+        .order_by(SweepMetrics.measured_at, SweepMetrics.sweep_id, SweepMetrics.band)
     )
+    if bands is not None:
+        query = query.where(SweepMetrics.band.in_(bands))
     series: dict[str, list[Any]] = {}
     for r in session.execute(query):
-        if r.status == "unknown" and r.sweep_id != row.id:
+        if r.sweep_id not in status_of:
+            continue  # same instant as the window's oldest sweep, but outside the window
+        if status_of[r.sweep_id] == "unknown" and r.sweep_id != row.id:
             continue  # a sweep too noisy to judge says nothing about a trend either
-        if bands is not None and r.band not in bands:
-            continue
         series.setdefault(r.band, []).append(r)
     out: list[str] = []
     for band, points in series.items():
@@ -285,30 +293,25 @@ def verdict_for(
 # -- the ingest hook ----------------------------------------------------------------------
 
 
-def _previous(session: Session, row: SweepRow) -> SweepRow | None:
-    return session.scalar(
-        select(SweepRow)
-        .where(
-            SweepRow.antenna_id == row.antenna_id,
-            SweepRow.id != row.id,
-            SweepRow.measured_at <= row.measured_at,
-        )
-        .order_by(SweepRow.measured_at.desc(), SweepRow.id.desc())
-        .limit(1)
+def _neighbours(session: Session, row: SweepRow) -> tuple[str | None, bool]:
+    """The status of the sweep before ``row`` (None: none) and whether ``row`` is the
+    antenna's latest. One read of the covering timeline index in the usual case (the new
+    sweep is the latest: the newest other sweep is then also the previous one)."""
+    others = select(SweepRow.status).where(
+        SweepRow.antenna_id == row.antenna_id, SweepRow.id != row.id
     )
-
-
-def _is_latest(session: Session, row: SweepRow) -> bool:
-    later = session.scalar(
-        select(SweepRow.id)
-        .where(
-            SweepRow.antenna_id == row.antenna_id,
-            SweepRow.id != row.id,
-            SweepRow.measured_at > row.measured_at,
-        )
-        .limit(1)
+    newest_first = (SweepRow.measured_at.desc(), SweepRow.id.desc())
+    newest = session.execute(
+        others.add_columns(SweepRow.measured_at).order_by(*newest_first).limit(1)
+    ).first()
+    if newest is None:
+        return None, True
+    if newest.measured_at <= row.measured_at:
+        return newest.status, True
+    prev = session.scalar(
+        others.where(SweepRow.measured_at <= row.measured_at).order_by(*newest_first).limit(1)
     )
-    return later is None
+    return prev, False
 
 
 def store_verdict(
@@ -345,15 +348,8 @@ def judge_sweep(session: Session, row: SweepRow) -> None:
             "unknown",
             (Finding("unknown", "not_judged", f"the verdict could not be computed: {exc}"),),
         )
-    prev = _previous(session, row)
-    store_verdict(
-        session,
-        antenna,
-        row,
-        verdict,
-        prev.status if prev else None,
-        notify=_is_latest(session, row),
-    )
+    prev_status, is_latest = _neighbours(session, row)
+    store_verdict(session, antenna, row, verdict, prev_status, notify=is_latest)
 
 
 # -- baselines ----------------------------------------------------------------------------
