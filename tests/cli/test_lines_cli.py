@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import importlib.util
 import json
+import re
 from pathlib import Path
 
 import numpy as np
@@ -90,6 +91,22 @@ def test_match_prints_networks_and_bandwidth(rlc_file: Path) -> None:
     r = runner.invoke(app, ["match", str(rlc_file), "--at", "7.1MHz"])
     assert r.exit_code == 0, r.output
     assert "inductive" in r.output and "kHz" in r.output and "series at load" in r.output
+
+
+def test_match_prints_every_negative_number_with_a_minus_sign(rlc_file: Path) -> None:
+    # Below resonance the series RLC is capacitive: X = ωL − 1/(ωC) (any circuits
+    # textbook, e.g. Pozar, Microwave Engineering, 4th ed., §6.1) = −14.3 Ω at 6.7 MHz.
+    w = 2 * np.pi * 6.7e6
+    x = w * 4e-6 - 1 / (w * 130e-12)
+    assert x < 0
+    r = runner.invoke(app, ["match", str(rlc_file), "--at", "6.7MHz"])
+    assert r.exit_code == 0, r.output
+    assert f"Z = 18.00 \u2212 j{-x:.2f} Ω" in r.output
+    assert f"(X = \u2212{-x:.3g} Ω)" in r.output
+    # One network of each pair has a negative X and B (both signs are solutions);
+    # the table prints them with U+2212 too, and no number anywhere with a hyphen.
+    assert any(cell.strip().startswith("\u2212") for cell in r.output.split("│"))
+    assert re.search(r"(?<![\w.])-\d", r.output) is None, r.output
 
 
 def test_match_json_each_network_matches(rlc_file: Path) -> None:

@@ -123,6 +123,9 @@ def test_formatting_and_hints() -> None:
     assert format_capacitance(245e-12) == "245 pF"
     assert "inductive" in load_hint(30 + 40j, 7.1e6) and "capacitance" in load_hint(30 + 40j, 7.1e6)
     assert "capacitive" in load_hint(30 - 40j, 7.1e6)
+    # Signs as typeset: "+" and the minus sign U+2212, never a hyphen-minus.
+    assert "(X = +40 Ω)" in load_hint(30 + 40j, 7.1e6)
+    assert "(X = \u221240 Ω)" in load_hint(30 - 40j, 7.1e6)
     hints = {n.hint.split(":")[0] for n in l_networks(200 - 100j, 500e6, 100)}
     assert hints == {"series inductance with shunt capacitance (low-pass)",
                      "series capacitance with shunt inductance (high-pass)"}

@@ -48,6 +48,14 @@ from mastwatch.rf.lines import (
 )
 from mastwatch.rf.matching import match_summary
 
+MINUS = "\u2212"  # U+2212 MINUS SIGN: every negative number of match prints with it
+
+
+def _signed(value: float, spec: str) -> str:
+    """``format(value, spec)`` with a negative value's sign printed as U+2212."""
+    text = format(value, spec)
+    return MINUS + text[1:] if text.startswith("-") else text
+
 
 def _fail(file: str, exc: BaseException) -> typer.Exit:
     typer.echo(error_line(file, exc), err=True)
@@ -253,7 +261,7 @@ def match(
     console.print(f"[bold]{name}[/bold]")
     plane = f" at the feedpoint (through {line.describe()})" if line else ""
     console.print(
-        f"  Z = {report['load_r_ohm']:.2f} {'+' if report['load_x_ohm'] >= 0 else '−'} "
+        f"  Z = {report['load_r_ohm']:.2f} {'+' if report['load_x_ohm'] >= 0 else MINUS} "
         f"j{abs(report['load_x_ohm']):.2f} Ω at {at_hz / 1e6:.6g} MHz{plane}, "
         f"matching to {z0:g} Ω"
     )
@@ -271,8 +279,8 @@ def match(
                     f"{bw['high_hz'] / 1e6:.4f} MHz)"
             if bw["open_low"] or bw["open_high"]:
                 width += ", runs off the sweep: a lower bound"
-        t.add_row(str(i), n["topology"].replace("_", " "), elements, f"{n['x_ohm']:.2f}",
-                  f"{n['b_s'] * 1e3:.3f}", width)
+        t.add_row(str(i), n["topology"].replace("_", " "), elements, _signed(n["x_ohm"], ".2f"),
+                  _signed(n["b_s"] * 1e3, ".3f"), width)
     console.print(t)
     console.print("  Ideal components; real ones add loss and stray reactance.")
 

@@ -276,7 +276,7 @@ def load_hint(z_load: complex, f_hz: float) -> str:
             "long here; the match needs capacitance to cancel it (or shorten the antenna)"
         )
     return (
-        f"the load is capacitive {at} (X = {x:.3g} Ω): the antenna is electrically "
+        f"the load is capacitive {at} (X = \u2212{-x:.3g} Ω): the antenna is electrically "
         "short here; the match needs inductance to cancel it (or lengthen the antenna)"
     )
 
