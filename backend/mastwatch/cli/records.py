@@ -25,7 +25,7 @@ DEFAULT_HOST = "127.0.0.1"
 DEFAULT_PORT = 8000
 DEMO_DB_NAME = "demo.sqlite3"
 
-db_app = typer.Typer(help="Database migrations.", no_args_is_help=True)
+db_app = typer.Typer(help="Database: migrations and backups.", no_args_is_help=True)
 
 
 def _fail(message: str) -> None:
@@ -84,6 +84,27 @@ def db_downgrade(
     settings = _settings()
     migrate.downgrade(settings.database_url, revision)
     typer.echo(f"database downgraded to {revision}")
+
+
+@db_app.command("backup")
+def db_backup(
+    target: Annotated[Path, typer.Argument(help="file to write the copy to")],
+    overwrite: Annotated[
+        bool, typer.Option("--overwrite", help="replace TARGET if it exists")
+    ] = False,
+) -> None:
+    """Copy the SQLite database consistently, even while it is being served."""
+    from mastwatch.db.backup import BackupError, backup
+
+    settings = _settings()
+    try:
+        result = backup(settings.database_url, target, overwrite=overwrite)
+    except BackupError as exc:
+        _fail(str(exc))
+    typer.echo(
+        f"backed up {result.sweeps} sweeps to {result.path} ({result.bytes / 1e6:.1f} MB); "
+        "to restore, stop the server and put this file in the database's place"
+    )
 
 
 @db_app.command("current")
