@@ -19,6 +19,14 @@ export function swr(value, digits = 2) {
   return value.toFixed(digits);
 }
 
+/** SWR at a band's centre from its metrics row: `null` is ∞ only when the centre was
+ *  swept; when it was not, every centre value is `null` (return loss too) and it shows —. */
+export function swrAtCentre(row, digits = 2) {
+  const rl = row.return_loss_center_db;
+  if (row.swr_center === null && (rl === null || rl === undefined)) return "—";
+  return swr(row.swr_center, digits);
+}
+
 export function num(value, digits = 2, unit = "") {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
   return `${value.toFixed(digits)}${unit ? ` ${unit}` : ""}`;

@@ -162,5 +162,7 @@ def test_preview_uses_the_band_plan_of_the_antennas_site(page: Any, page_log: Pa
     assert page.evaluate("window.__regions") == ["2"]
     rows = card.locator(".preview tbody tr")
     assert rows.count() == 1 and rows.first.locator("td").first.inner_text() == "40m"
+    # The band centre (7.15 MHz) lies below the sweep: "not measured" (—), not ∞.
+    assert rows.first.locator("td").nth(2).inner_text() == "—"
     shot(page, "upload-preview-region-2")
     assert page_log.errors == []
