@@ -130,7 +130,7 @@ def _num(value: float | None, fmt: str = ".2f", scale: float = 1.0) -> str:
         return "—"
     if math.isinf(value):
         return "∞"
-    return format(value / scale, fmt)
+    return format(value / scale, fmt).replace("-", "−")  # a true minus, as `match` prints
 
 
 def _mhz(hz: float | None) -> str:
