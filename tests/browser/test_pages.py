@@ -54,3 +54,19 @@ def test_unknown_route_says_so(page: Any, page_log: PageLog, live_server: Any) -
     page.wait_for_selector("main h1")
     assert page.locator("main h1").inner_text() == "Page not found"
     assert page_log.errors == []
+
+
+def test_printing_the_site_check_keeps_the_record_and_drops_the_controls(
+    page: Any, page_log: PageLog, club: Club
+) -> None:
+    site = club.sites[0]
+    page.goto(f"/#/check/{site['id']}")
+    wait_ready(page, "/check")
+    page.emulate_media(media="print")
+    assert not page.locator("header.topbar").is_visible()
+    assert page.locator("button:visible").count() == 0
+    assert page.locator(".caution").first.is_visible()  # the cautions go on paper too
+    assert page.locator("h1").first.is_visible()
+    page.emulate_media(media="screen")
+    assert page.locator("header.topbar").is_visible()
+    assert page_log.errors == []
