@@ -1,9 +1,11 @@
-"""The health hook's drift window: the newest DRIFT_WINDOW sweeps since the baseline, exactly.
+"""The health hook inside the upload: bounded reads, the same verdict as from the records.
 
 The hook runs inside every upload, so its work must not grow with the antenna's record
-(health_records.drift_reasons). Here the series handed to the change-point test is
-checked against a plain query of the same sweeps' stored metrics, with several sweeps
-sharing the instant where the window starts (those older by id fall outside it).
+(health_records.drift_reasons): the series handed to the change-point test is checked
+against a plain query of the newest DRIFT_WINDOW sweeps' stored metrics, with several
+sweeps sharing the instant where the window starts (those older by id fall outside it).
+The upload judges from the metrics rows it holds in memory; judging again from the
+database must agree, reasons in the same order.
 """
 
 from __future__ import annotations
@@ -68,3 +70,33 @@ def test_drift_series_is_the_newest_window_of_sweeps(
     series = [s for s in seen if s["label"] == "min SWR"]
     assert len(series) == 1 and series[0]["band"] == "40m"
     assert series[0]["values"] == expected
+
+
+@pytest.mark.parametrize("bands", [["40m", "30m"], []])
+def test_upload_verdict_equals_the_verdict_from_the_stored_rows(
+    session: Session, bands: list[str]
+) -> None:
+    """The upload judges from the metrics rows it just inserted (in memory); judging the
+    same sweep again from the database must give the same status and reasons, in order."""
+    site = sites.create_site(session, {"name": "Q0HRS mast", "itu_region": 1, "timezone": "UTC"})
+    ant = antennas.create_antenna(
+        session, {"site_id": site.id, "name": "fan dipole", "kind": "dipole", "bands": bands}
+    )
+    t0 = datetime(2025, 2, 1, 9, 0)
+    wide = {"f_start_hz": 6.0e6, "f_stop_hz": 11.0e6, "points": 801}
+
+    def upload(i: int, f0_hz: float, r_ohm: float) -> Any:
+        data = rlc_touchstone(f0_hz, r_ohm, 12.0, comments=(f"sweep {i}",), **wide)
+        meta = UploadMeta(measured_at=t0 + timedelta(days=30 * i))
+        return ingest_sweep(session, ant.id, data, f"s{i}.s1p", meta).sweep
+
+    base = upload(0, 7.1e6, 60.0)
+    health_records.set_baseline(session, ant.id, base.id)
+    # Detuned well past the watch level (resonance shift, SWR at band centre: rules of
+    # thumb in thresholds.py), so several reasons come in a defined order.
+    moved = upload(1, 6.85e6, 75.0)
+    assert moved.status in ("watch", "fault") and len(moved.status_reasons) >= 2
+    again = health_records.verdict_for(
+        session, ant, moved, health_records.with_arrays(session, base.id)
+    )
+    assert (again.status, again.reasons) == (moved.status, moved.status_reasons)

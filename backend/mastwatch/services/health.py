@@ -858,12 +858,13 @@ def judge(
     )
 
 
-def judge_sweep(session: Any, row: Any) -> None:
+def judge_sweep(session: Any, row: Any, band_rows: list[dict[str, Any]] | None = None) -> None:
     """The records service's post-ingest hook (services/ingest.py looks for this name).
 
     Kept here so the hook is found where the verdict lives; the database work is in
-    services/health_records.py (imported lazily: this module stays pure).
+    services/health_records.py (imported lazily: this module stays pure). ``band_rows``:
+    the sweep's metrics rows as the upload just inserted them (None: read them back).
     """
     from mastwatch.services.health_records import judge_sweep as judge_on_records
 
-    judge_on_records(session, row)
+    judge_on_records(session, row, band_rows)

@@ -27,6 +27,7 @@ from collections import OrderedDict
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from datetime import UTC, datetime, time
+from types import SimpleNamespace
 from typing import Any
 
 from sqlalchemy import select
@@ -61,7 +62,7 @@ class Metrics:
     """What health.judge reads of a sweep's metrics, built from the database rows."""
 
     plane: str
-    bands: list[SweepMetrics]
+    bands: list[Any]  # SweepMetrics rows, or the same values as the upload inserted them
     resonances: list[dict[str, Any]] = field(default_factory=list)
 
 
@@ -84,14 +85,32 @@ DRIFT_METRICS: tuple[DriftMetric, ...] = (
 # -- reading ------------------------------------------------------------------------------
 
 
-def sweep_metrics(session: Session, row: SweepRow) -> Metrics:
-    rows = list(session.scalars(select(SweepMetrics).where(SweepMetrics.sweep_id == row.id)))
+def sweep_metrics(
+    session: Session, row: SweepRow, band_rows: Sequence[dict[str, Any]] | None = None
+) -> Metrics:
+    """The sweep's band metrics at the plane the judge reads, in frequency order.
+
+    ``band_rows`` are its metrics rows as just inserted (the upload has them in memory:
+    the same values the database holds); without them they are selected.
+    """
     has_feed = row.summary.get("feedpoint") is not None
     plane = "feedpoint" if has_feed else "measured"
     summary = row.summary.get(plane) or {}
-    return Metrics(
-        plane, [m for m in rows if m.plane == plane], list(summary.get("resonances") or [])
-    )
+    bands: list[Any]
+    if band_rows is None:
+        bands = list(
+            session.scalars(
+                select(SweepMetrics)
+                .where(SweepMetrics.sweep_id == row.id, SweepMetrics.plane == plane)
+                .order_by(SweepMetrics.low_hz)
+            )
+        )
+    else:
+        bands = sorted(
+            (SimpleNamespace(**r) for r in band_rows if r["plane"] == plane),
+            key=lambda b: b.low_hz,
+        )
+    return Metrics(plane, bands, list(summary.get("resonances") or []))
 
 
 def with_arrays(session: Session, sweep_id: int) -> SweepRow:
@@ -107,9 +126,14 @@ def with_arrays(session: Session, sweep_id: int) -> SweepRow:
     return row
 
 
-def sweep_view(session: Session, row: SweepRow, label: str | None = None) -> SweepView:
+def sweep_view(
+    session: Session,
+    row: SweepRow,
+    label: str | None = None,
+    band_rows: Sequence[dict[str, Any]] | None = None,
+) -> SweepView:
     return SweepView(
-        metrics=sweep_metrics(session, row),
+        metrics=sweep_metrics(session, row, band_rows),
         taken_at=row.measured_at,
         measured=codec.measured_sweep(row),
         plane="line_input" if row.reference_plane == "line_input" else "feedpoint",
@@ -121,6 +145,16 @@ def sweep_view(session: Session, row: SweepRow, label: str | None = None) -> Swe
 def current_baseline(session: Session, antenna_id: int) -> Baseline | None:
     return session.scalar(
         select(Baseline)
+        .where(Baseline.antenna_id == antenna_id, Baseline.ended_at.is_(None))
+        .order_by(Baseline.set_at.desc(), Baseline.id.desc())
+        .limit(1)
+    )
+
+
+def current_baseline_sweep_id(session: Session, antenna_id: int) -> int | None:
+    """The sweep id of :func:`current_baseline` (one column: the upload needs no more)."""
+    return session.scalar(
+        select(Baseline.sweep_id)
         .where(Baseline.antenna_id == antenna_id, Baseline.ended_at.is_(None))
         .order_by(Baseline.set_at.desc(), Baseline.id.desc())
         .limit(1)
@@ -268,10 +302,12 @@ def verdict_for(
     *,
     label: str | None = None,
     drift: bool = True,
+    band_rows: Sequence[dict[str, Any]] | None = None,
 ) -> Verdict:
-    """The verdict of sweep ``row`` against sweep ``base`` (both rows with their arrays)."""
+    """The verdict of sweep ``row`` against sweep ``base`` (both rows with their arrays);
+    ``band_rows``: ``row``'s metrics rows when the caller has them (see sweep_metrics)."""
     bands = list(antenna.bands) if antenna.bands else None
-    current = sweep_view(session, row)
+    current = sweep_view(session, row, band_rows=band_rows)
     if base is None:
         return judge(current, None, antenna.thresholds, bands=bands)
     snap = row.feedline_snapshot or {}
@@ -332,15 +368,17 @@ def store_verdict(
         queue_verdict_change(session, antenna, row, old_status, verdict.status, verdict.reasons)
 
 
-def judge_sweep(session: Session, row: SweepRow) -> None:
+def judge_sweep(
+    session: Session, row: SweepRow, band_rows: Sequence[dict[str, Any]] | None = None
+) -> None:
     """Judge a new sweep against its antenna's baseline (runs inside the upload)."""
     antenna = session.get(Antenna, row.antenna_id)
     if antenna is None:
         return
-    baseline = current_baseline(session, antenna.id)
-    base_row = with_arrays(session, baseline.sweep_id) if baseline else None
+    base_id = current_baseline_sweep_id(session, antenna.id)
+    base_row = with_arrays(session, base_id) if base_id is not None else None
     try:
-        verdict = verdict_for(session, antenna, row, base_row)
+        verdict = verdict_for(session, antenna, row, base_row, band_rows=band_rows)
     except (ArithmeticError, ValueError, AnalysisError) as exc:
         # A verdict that cannot be computed must not cost the keeper the upload.
         log.exception("sweep %s of antenna %s could not be judged", row.id, antenna.id)

@@ -9,14 +9,16 @@
          → ROLLBACK and return that one (200): exactly one sweep, whatever the timing
 
 Extension point — post-ingest hooks: after the rows are flushed and before the commit,
-``mastwatch.services.health.judge_sweep(session, sweep_row)`` is called when that module
-defines it (issue 5), then every callable in :data:`POST_INGEST_HOOKS`. A hook may set
+``mastwatch.services.health.judge_sweep(session, sweep_row, band_rows)`` is called when
+that module defines it (issue 5; ``band_rows``: the metrics rows as inserted, so the
+judge need not select them back), then every callable in :data:`POST_INGEST_HOOKS`. A hook may set
 ``sweep_row.status`` / ``status_reasons`` and add rows (e.g. queue a notification); it
 runs inside the upload's transaction, so it must not do network I/O (queue instead).
 """
 
 from __future__ import annotations
 
+import functools
 import hashlib
 import importlib
 import importlib.util
@@ -25,11 +27,11 @@ from dataclasses import dataclass, field
 from datetime import datetime
 from typing import Any, cast
 
-from sqlalchemy import Table, insert, select
+from sqlalchemy import Table, and_, insert, select
 from sqlalchemy.exc import IntegrityError
-from sqlalchemy.orm import Session, joinedload
+from sqlalchemy.orm import Session, joinedload, lazyload
 
-from mastwatch.db.models import BAND_METRIC_FIELDS, Antenna, Feedline, SweepMetrics
+from mastwatch.db.models import BAND_METRIC_FIELDS, Antenna, SweepMetrics
 from mastwatch.db.models import Sweep as SweepRow
 from mastwatch.db.types import utcnow
 from mastwatch.rf import lines
@@ -40,6 +42,8 @@ from mastwatch.services.errors import Invalid, not_found
 from mastwatch.services.timeutil import to_utc
 
 PostIngestHook = Callable[[Session, SweepRow], None]
+# The health verdict also gets the metrics rows as inserted (None: read them back).
+HealthJudge = Callable[[Session, SweepRow, "list[dict[str, Any]] | None"], None]
 POST_INGEST_HOOKS: list[PostIngestHook] = []
 """Extra callables run after each new sweep is flushed (see the module docstring)."""
 
@@ -79,19 +83,21 @@ def find_existing(session: Session, antenna_id: int, sha256: str) -> SweepRow | 
     )
 
 
-def get_antenna_for_ingest(session: Session, antenna_id: int) -> Antenna:
-    """The antenna with its site and feedline (and cable type) in one query."""
-    antenna = session.scalar(
-        select(Antenna)
+def get_antenna_for_ingest(
+    session: Session, antenna_id: int, sha256: str
+) -> tuple[Antenna, int | None]:
+    """The antenna with its site, and the id of its sweep with these bytes (None if
+    none), in one query. The feedline loads on first access: only line-input uploads
+    read it."""
+    found = session.execute(
+        select(Antenna, SweepRow.id)
+        .outerjoin(SweepRow, and_(SweepRow.antenna_id == Antenna.id, SweepRow.sha256 == sha256))
         .where(Antenna.id == antenna_id)
-        .options(
-            joinedload(Antenna.site),
-            joinedload(Antenna.feedline).joinedload(Feedline.cable_type),
-        )
-    )
-    if antenna is None:
+        .options(joinedload(Antenna.site), lazyload(Antenna.feedline))
+    ).first()
+    if found is None:
         raise not_found("antenna", antenna_id)
-    return antenna
+    return found[0], found[1]
 
 
 def ingest_sweep(
@@ -104,11 +110,12 @@ def ingest_sweep(
     """Store one sweep file for an antenna (idempotent per file content)."""
     if meta.reference_plane not in ("feedpoint", "line_input"):
         raise Invalid("reference_plane must be 'feedpoint' or 'line_input'")
-    antenna = get_antenna_for_ingest(session, antenna_id)
     sha256 = hashlib.sha256(data).hexdigest()
-    existing = find_existing(session, antenna.id, sha256)
-    if existing is not None:
-        return IngestResult(existing, created=False)
+    antenna, existing_id = get_antenna_for_ingest(session, antenna_id, sha256)
+    if existing_id is not None:
+        existing = session.get(SweepRow, existing_id)
+        if existing is not None:
+            return IngestResult(existing, created=False)
     site = antenna.site
     feedline: lines.Feedline | None = None
     if meta.reference_plane == "line_input" and antenna.feedline is not None:
@@ -127,14 +134,15 @@ def ingest_sweep(
     else:
         measured_at, source = utcnow(), "upload"
 
-    row = build_sweep_row(antenna.id, data, filename, meta, sweep, analysis, feedline)
+    row = build_sweep_row(antenna.id, data, sha256, filename, meta, sweep, analysis, feedline)
     row.measured_at, row.measured_at_source = measured_at, source
     try:
         session.add(row)
         session.flush()
         # Core bulk insert: one executemany (one statement on PostgreSQL), no RETURNING.
-        session.execute(insert(METRICS_TABLE), metrics_rows(row, analysis))
-        run_post_ingest_hooks(session, row)
+        band_rows = metrics_rows(row, analysis)
+        session.execute(insert(METRICS_TABLE), band_rows)
+        run_post_ingest_hooks(session, row, band_rows)
         session.commit()
     except IntegrityError:
         session.rollback()
@@ -155,6 +163,7 @@ def ingest_sweep(
 def build_sweep_row(
     antenna_id: int,
     data: bytes,
+    sha256: str,
     filename: str,
     meta: UploadMeta,
     sweep: Any,
@@ -172,7 +181,7 @@ def build_sweep_row(
         filename=filename,
         file_format=sweep.source.format,
         original_size=len(data),
-        sha256=hashlib.sha256(data).hexdigest(),
+        sha256=sha256,
         original=codec.compress(data),
         freq_hz=codec.pack_freq(sweep.freq_hz),
         gamma=codec.pack_gamma(sweep.gamma),
@@ -214,16 +223,26 @@ def metrics_rows(row: SweepRow, analysis: Analysis) -> list[dict[str, Any]]:
     return out
 
 
-def _health_judge() -> PostIngestHook | None:
+@functools.cache
+def _find_health_judge() -> HealthJudge | None:
     if importlib.util.find_spec(HEALTH_MODULE) is None:
         return None
-    judge: PostIngestHook | None = getattr(
-        importlib.import_module(HEALTH_MODULE), "judge_sweep", None
-    )
+    judge: HealthJudge | None = getattr(importlib.import_module(HEALTH_MODULE), "judge_sweep", None)
     return judge
 
 
-def run_post_ingest_hooks(session: Session, row: SweepRow) -> None:
+def _health_judge() -> HealthJudge | None:
+    return _find_health_judge()
+
+
+def run_post_ingest_hooks(
+    session: Session, row: SweepRow, band_rows: list[dict[str, Any]] | None = None
+) -> None:
+    """The health verdict, then every hook of POST_INGEST_HOOKS. ``band_rows`` are the
+    sweep's metrics rows as just inserted: the judge reads them from memory instead of
+    selecting them back."""
     judge = _health_judge()
-    for hook in ([judge] if judge else []) + POST_INGEST_HOOKS:
+    if judge is not None:
+        judge(session, row, band_rows)
+    for hook in POST_INGEST_HOOKS:
         hook(session, row)
