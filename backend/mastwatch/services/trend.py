@@ -9,7 +9,6 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from datetime import datetime
-from typing import Any
 
 from sqlalchemy import Row, select
 from sqlalchemy.orm import Session, joinedload, lazyload
@@ -27,7 +26,7 @@ class Trend:
     band: str
     metric: MetricSpec
     plane: str
-    points: list[Row[Any]]  # .sweep_id, .measured_at, .value
+    points: list[Row[int, datetime, float | None]]  # .sweep_id, .measured_at, .value
     events: list[Event]
 
 
@@ -39,7 +38,7 @@ def trend_points(
     plane: str,
     since: datetime | None = None,
     until: datetime | None = None,
-) -> list[Row[Any]]:
+) -> list[Row[int, datetime, float | None]]:
     column = getattr(SweepMetrics, field).label("value")
     query = select(SweepMetrics.sweep_id, SweepMetrics.measured_at, column).where(
         SweepMetrics.antenna_id == antenna_id,

@@ -6,7 +6,7 @@ from datetime import datetime
 from typing import Annotated, Literal
 
 from fastapi import APIRouter, Query, Response
-from pydantic import TypeAdapter
+from pydantic_core import to_json
 
 from mastwatch.api.deps import SessionDep
 from mastwatch.api.schemas.records import EventPublic
@@ -16,9 +16,9 @@ from mastwatch.services import trend
 router = APIRouter(tags=["trend"])
 
 
-# Validated and written to JSON bytes in pydantic-core in one pass: a trend of thousands
-# of points would otherwise go through Python-level encoding twice.
-TREND_JSON = TypeAdapter(TrendPublic)
+# Written to JSON bytes by pydantic-core from plain dicts, without validating them
+# against TrendPublic (which stays the documented shape): every value comes typed from
+# the database columns, and validating 10,000 points cost ten times their encoding.
 
 
 @router.get("/antennas/{antenna_id}/trend", response_model=TrendPublic)
@@ -40,10 +40,7 @@ def antenna_trend(
         "field": t.metric.field,
         "label": t.metric.label,
         "unit": t.metric.unit,
-        "points": t.points,
-        "events": [EventPublic.model_validate(e) for e in t.events],
+        "points": [{"sweep_id": p[0], "measured_at": p[1], "value": p[2]} for p in t.points],
+        "events": [EventPublic.model_validate(e).model_dump() for e in t.events],
     }
-    return Response(
-        TREND_JSON.dump_json(TREND_JSON.validate_python(doc, from_attributes=True)),
-        media_type="application/json",
-    )
+    return Response(to_json(doc), media_type="application/json")
