@@ -109,8 +109,12 @@ def test_distance_to_fault_against_baseline_with_cautions(page: Any, page_log: P
     health = live_server.api.get(f"/antennas/{ant['id']}/health").json()
     if health.get("baseline") and health["baseline"]["sweep_id"] != latest["id"]:
         assert "baseline" in names
-    # The trace is the API's reflection in dB, point for point.
-    api = live_server.api.get(f"/sweeps/{latest['id']}/dtf").json()
+    # The trace is the API's reflection in dB, point for point, asked for as far as the
+    # page asks: 1.5 line lengths + 5 m (frontend/js/pages/antenna.js).
+    length = live_server.api.get(f"/sweeps/{latest['id']}").json()["feedline_snapshot"]["length_m"]
+    view = f"{1.5 * length + 5:.1f}"
+    api = live_server.api.get(f"/sweeps/{latest['id']}/dtf", params={"max_distance_m": view}).json()
+    assert api["max_distance_m"] == float(view)
     y = page.evaluate("document.querySelector('#dtf .plot').data"
                       ".find(t => t.name === 'this sweep').y")
     k = len(y) // 2

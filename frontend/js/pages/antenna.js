@@ -245,12 +245,14 @@ export async function render(root, [idText], query, isStale) {
   const dtfNote = h("div", { class: "muted small", "aria-live": "polite" });
   async function drawDtfNow() {
     try {
-      const cur = await api.dtf(latest.id);
-      const base = baselineId && baselineId !== latest.id && dtfPossible(baselineSweep)
-        ? await api.dtf(baselineId).catch(() => null) : null;
-      // Show the line and a little beyond its far end (where an open or a load shows).
+      // Show the line and a little beyond its far end (where an open or a load shows);
+      // the server compensates the cable's loss only that far (rf/dtf.py).
       const length = latest.feedline_snapshot?.length_m;
       const maxM = length ? 1.5 * length + 5 : Infinity;
+      const view = Number.isFinite(maxM) ? { max_distance_m: maxM.toFixed(1) } : {};
+      const cur = await api.dtf(latest.id, view);
+      const base = baselineId && baselineId !== latest.id && dtfPossible(baselineSweep)
+        ? await api.dtf(baselineId, view).catch(() => null) : null;
       dtfNow = dtfArrays(cur, maxM);
       dtfBase = base ? dtfArrays(base, maxM) : null;
       dtfBox.box.classList.remove("hidden");
