@@ -6,6 +6,7 @@ from datetime import datetime
 from typing import Annotated, Any, Literal
 
 from fastapi import APIRouter, File, Form, Query, Response, UploadFile, status
+from pydantic import TypeAdapter
 
 from mastwatch.api.deps import SessionDep, SettingsDep
 from mastwatch.api.schemas.sweeps import (
@@ -21,6 +22,7 @@ from mastwatch.db.models import Sweep as SweepRow
 from mastwatch.services import ingest, sweeps
 
 router = APIRouter(tags=["sweeps"])
+UPLOAD_JSON = TypeAdapter(UploadResult)
 
 PlaneParam = Literal["measured", "feedpoint"]
 
@@ -44,7 +46,6 @@ def upload_sweep(
     antenna_id: int,
     session: SessionDep,
     settings: SettingsDep,
-    response: Response,
     file: Annotated[UploadFile, File(description="Touchstone (.s1p/.s2p) or CSV sweep")],
     measured_at: Annotated[
         datetime | None,
@@ -55,15 +56,22 @@ def upload_sweep(
     conditions: Annotated[str, Form()] = "",
     notes: Annotated[str, Form()] = "",
     columns: Annotated[str | None, Form(description="CSV column spec, e.g. freq:MHz,re,im")] = None,
-) -> dict[str, Any]:
+) -> Response:
     data, filename = read_upload(file, settings.max_upload_bytes)
     meta = ingest.UploadMeta(measured_at, reference_plane, operator, conditions, notes, columns)
     result = ingest.ingest_sweep(session, antenna_id, data, filename, meta)
     if not result.created:
-        response.status_code = status.HTTP_200_OK
-        return detail(result.sweep, duplicate=True)
-    public = SweepPublic.model_validate(result.sweep).model_dump()
-    return {**public, "metrics": result.extra["metrics"], "duplicate": False}
+        doc = detail(result.sweep, duplicate=True)
+    else:
+        public = SweepPublic.model_validate(result.sweep).model_dump()
+        doc = {**public, "metrics": result.extra["metrics"], "duplicate": False}
+    # Validated and encoded in pydantic-core in one pass (the default response path
+    # encodes the same document a second time in Python).
+    return Response(
+        UPLOAD_JSON.dump_json(UPLOAD_JSON.validate_python(doc)),
+        status_code=status.HTTP_201_CREATED if result.created else status.HTTP_200_OK,
+        media_type="application/json",
+    )
 
 
 @router.get("/antennas/{antenna_id}/sweeps", response_model=SweepsPage)
