@@ -30,7 +30,7 @@ from datetime import UTC, datetime, time
 from types import SimpleNamespace
 from typing import Any
 
-from sqlalchemy import select
+from sqlalchemy import bindparam, select
 from sqlalchemy.orm import Session, undefer
 
 from mastwatch.db.models import Antenna, Baseline, Event, SweepMetrics
@@ -70,7 +70,7 @@ class Metrics:
 class DriftMetric:
     field: str
     label: str
-    floor: Callable[[SweepMetrics], float]  # measurement resolution of the metric
+    floor: Callable[[Any], float]  # measurement resolution, from the band's low/high_hz
     fmt: Callable[[float], str]
 
 
@@ -151,14 +151,18 @@ def current_baseline(session: Session, antenna_id: int) -> Baseline | None:
     )
 
 
+_CURRENT_BASELINE_SWEEP = (
+    select(Baseline.sweep_id)
+    .where(Baseline.antenna_id == bindparam("antenna_id"), Baseline.ended_at.is_(None))
+    .order_by(Baseline.set_at.desc(), Baseline.id.desc())
+    .limit(1)
+)
+
+
 def current_baseline_sweep_id(session: Session, antenna_id: int) -> int | None:
     """The sweep id of :func:`current_baseline` (one column: the upload needs no more)."""
-    return session.scalar(
-        select(Baseline.sweep_id)
-        .where(Baseline.antenna_id == antenna_id, Baseline.ended_at.is_(None))
-        .order_by(Baseline.set_at.desc(), Baseline.id.desc())
-        .limit(1)
-    )
+    sweep_id: int | None = session.scalar(_CURRENT_BASELINE_SWEEP, {"antenna_id": antenna_id})
+    return sweep_id
 
 
 def baseline_history(session: Session, antenna_id: int) -> list[Baseline]:
@@ -214,6 +218,43 @@ def _dtf_pair(current: SweepRow, base: SweepRow) -> tuple[DtfTrace, DtfTrace] | 
     return None if cur_trace is None else (cur_trace, base_trace)
 
 
+# The hook's statements are built once, with bound parameters: building a select costs
+# about as much as running one of these small indexed queries.
+_WINDOW = (
+    select(SweepRow.id, SweepRow.status, SweepRow.measured_at)
+    .where(
+        SweepRow.antenna_id == bindparam("antenna_id"),
+        SweepRow.measured_at >= bindparam("since"),
+        SweepRow.measured_at <= bindparam("until"),
+    )
+    .order_by(SweepRow.measured_at.desc(), SweepRow.id.desc())
+    .limit(DRIFT_WINDOW)
+)
+_SERIES_COLUMNS = (
+    "sweep_id",
+    "measured_at",
+    "band",
+    "low_hz",
+    "high_hz",
+    "min_swr",
+    "swr_center",
+    "resonance_hz",
+)
+_SERIES = (
+    select(*(getattr(SweepMetrics, c) for c in _SERIES_COLUMNS))
+    .where(
+        SweepMetrics.antenna_id == bindparam("antenna_id"),
+        SweepMetrics.plane == bindparam("plane"),
+        # The oldest sweep of the window bounds the range; rows of sweeps sharing that
+        # instant but outside the window are dropped when read.
+        SweepMetrics.measured_at >= bindparam("since"),
+        SweepMetrics.measured_at <= bindparam("until"),
+    )
+    .order_by(SweepMetrics.measured_at, SweepMetrics.sweep_id, SweepMetrics.band)
+)
+_SERIES_OF_BANDS = _SERIES.where(SweepMetrics.band.in_(bindparam("bands", expanding=True)))
+
+
 def drift_reasons(
     session: Session,
     antenna: Antenna,
@@ -230,64 +271,46 @@ def drift_reasons(
     rows of the antenna's bands on the trend index (no join, no IN list of ids).
     """
     window = session.execute(
-        select(SweepRow.id, SweepRow.status, SweepRow.measured_at)
-        .where(
-            SweepRow.antenna_id == antenna.id,
-            SweepRow.measured_at >= base.measured_at,
-            SweepRow.measured_at <= row.measured_at,
-        )
-        .order_by(SweepRow.measured_at.desc(), SweepRow.id.desc())
-        .limit(DRIFT_WINDOW)
+        _WINDOW, {"antenna_id": antenna.id, "since": base.measured_at, "until": row.measured_at}
     ).all()
     if len(window) < MIN_POINTS:
         return []
     status_of = {w.id: w.status for w in window}
-    query = (
-        select(
-            SweepMetrics.sweep_id,
-            SweepMetrics.measured_at,
-            SweepMetrics.band,
-            SweepMetrics.low_hz,
-            SweepMetrics.high_hz,
-            SweepMetrics.min_swr,
-            SweepMetrics.swr_center,
-            SweepMetrics.resonance_hz,
-        )
-        .where(
-            SweepMetrics.antenna_id == antenna.id,
-            SweepMetrics.plane == plane,
-            # The oldest sweep of the window bounds the range; rows of sweeps sharing
-            # that instant but outside the window are dropped below.
-            SweepMetrics.measured_at >= window[-1].measured_at,
-            SweepMetrics.measured_at <= row.measured_at,
-        )
-        .order_by(SweepMetrics.measured_at, SweepMetrics.sweep_id, SweepMetrics.band)
-    )
+    params: dict[str, Any] = {
+        "antenna_id": antenna.id,
+        "plane": plane,
+        "since": window[-1].measured_at,
+        "until": row.measured_at,
+    }
     if bands is not None:
-        query = query.where(SweepMetrics.band.in_(bands))
+        params["bands"] = list(bands)
     series: dict[str, list[Any]] = {}
-    for r in session.execute(query):
+    for r in session.execute(_SERIES if bands is None else _SERIES_OF_BANDS, params):
         if r.sweep_id not in status_of:
             continue  # same instant as the window's oldest sweep, but outside the window
         if status_of[r.sweep_id] == "unknown" and r.sweep_id != row.id:
             continue  # a sweep too noisy to judge says nothing about a trend either
-        series.setdefault(r.band, []).append(r)
+        series.setdefault(r.band, []).append(tuple(r))
     out: list[str] = []
+    at = _SERIES_COLUMNS.index
     for band, points in series.items():
         t = thresholds_for(antenna.thresholds, band)
+        dates = [p[at("measured_at")] for p in points]
+        first = SimpleNamespace(low_hz=points[0][at("low_hz")], high_hz=points[0][at("high_hz")])
         for metric in DRIFT_METRICS:
-            values = [getattr(p, metric.field) for p in points]
+            i = at(metric.field)
+            values = [p[i] for p in points]
             if metric.field != "resonance_hz":
                 values = [None if v is None or not math.isfinite(v) else v for v in values]
             text = drift_reason(
-                [p.measured_at for p in points],
+                dates,
                 values,
                 label=metric.label,
                 band=band,
                 unit_format=metric.fmt,
                 k=t.cusum_k,
                 h=t.cusum_h,
-                sigma_floor=metric.floor(points[0]),
+                sigma_floor=metric.floor(first),
             )
             if text:
                 out.append(text)
@@ -329,24 +352,35 @@ def verdict_for(
 # -- the ingest hook ----------------------------------------------------------------------
 
 
+_NEWEST_OTHER = (
+    select(SweepRow.status, SweepRow.measured_at)
+    .where(SweepRow.antenna_id == bindparam("antenna_id"), SweepRow.id != bindparam("row_id"))
+    .order_by(SweepRow.measured_at.desc(), SweepRow.id.desc())
+    .limit(1)
+)
+_PREVIOUS_STATUS = (
+    select(SweepRow.status)
+    .where(
+        SweepRow.antenna_id == bindparam("antenna_id"),
+        SweepRow.id != bindparam("row_id"),
+        SweepRow.measured_at <= bindparam("until"),
+    )
+    .order_by(SweepRow.measured_at.desc(), SweepRow.id.desc())
+    .limit(1)
+)
+
+
 def _neighbours(session: Session, row: SweepRow) -> tuple[str | None, bool]:
     """The status of the sweep before ``row`` (None: none) and whether ``row`` is the
     antenna's latest. One read of the covering timeline index in the usual case (the new
     sweep is the latest: the newest other sweep is then also the previous one)."""
-    others = select(SweepRow.status).where(
-        SweepRow.antenna_id == row.antenna_id, SweepRow.id != row.id
-    )
-    newest_first = (SweepRow.measured_at.desc(), SweepRow.id.desc())
-    newest = session.execute(
-        others.add_columns(SweepRow.measured_at).order_by(*newest_first).limit(1)
-    ).first()
+    params = {"antenna_id": row.antenna_id, "row_id": row.id}
+    newest = session.execute(_NEWEST_OTHER, params).first()
     if newest is None:
         return None, True
     if newest.measured_at <= row.measured_at:
         return newest.status, True
-    prev = session.scalar(
-        others.where(SweepRow.measured_at <= row.measured_at).order_by(*newest_first).limit(1)
-    )
+    prev = session.scalar(_PREVIOUS_STATUS, {**params, "until": row.measured_at})
     return prev, False
 
 

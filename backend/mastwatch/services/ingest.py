@@ -27,7 +27,7 @@ from dataclasses import dataclass, field
 from datetime import datetime
 from typing import Any, cast
 
-from sqlalchemy import Table, and_, insert, select
+from sqlalchemy import Table, and_, bindparam, insert, select
 from sqlalchemy.exc import IntegrityError
 from sqlalchemy.orm import Session, joinedload, lazyload
 
@@ -83,6 +83,18 @@ def find_existing(session: Session, antenna_id: int, sha256: str) -> SweepRow | 
     )
 
 
+# Built once with bound parameters (building it costs about as much as running it).
+_ANTENNA_AND_DUPLICATE = (
+    select(Antenna, SweepRow.id)
+    .outerjoin(
+        SweepRow,
+        and_(SweepRow.antenna_id == Antenna.id, SweepRow.sha256 == bindparam("sha256")),
+    )
+    .where(Antenna.id == bindparam("antenna_id"))
+    .options(joinedload(Antenna.site), lazyload(Antenna.feedline))
+)
+
+
 def get_antenna_for_ingest(
     session: Session, antenna_id: int, sha256: str
 ) -> tuple[Antenna, int | None]:
@@ -90,10 +102,7 @@ def get_antenna_for_ingest(
     none), in one query. The feedline loads on first access: only line-input uploads
     read it."""
     found = session.execute(
-        select(Antenna, SweepRow.id)
-        .outerjoin(SweepRow, and_(SweepRow.antenna_id == Antenna.id, SweepRow.sha256 == sha256))
-        .where(Antenna.id == antenna_id)
-        .options(joinedload(Antenna.site), lazyload(Antenna.feedline))
+        _ANTENNA_AND_DUPLICATE, {"antenna_id": antenna_id, "sha256": sha256}
     ).first()
     if found is None:
         raise not_found("antenna", antenna_id)
