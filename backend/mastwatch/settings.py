@@ -8,6 +8,7 @@ field; a test keeps that page complete.
 
 from __future__ import annotations
 
+import re
 import zoneinfo
 from functools import lru_cache
 from pathlib import Path
@@ -16,6 +17,9 @@ from pydantic import Field, SecretStr, field_validator, model_validator
 from pydantic_settings import BaseSettings, SettingsConfigDict
 
 from mastwatch.rf.limits import MAX_FILE_BYTES
+
+KEEPER_TOKEN_PATTERN = re.compile(r"[A-Za-z0-9._~+/-]+=*")
+"""RFC 6750 §2.1 b64token: what a Bearer credential may be made of."""
 
 
 class Settings(BaseSettings):
@@ -84,8 +88,27 @@ class Settings(BaseSettings):
     @classmethod
     def _blank_is_unset(cls, value: object) -> object:
         # An empty MASTWATCH_KEEPER_TOKEN= (e.g. from docker-compose's default) means "no
-        # token", never "the empty string is the token".
-        return None if isinstance(value, str) and not value.strip() else value
+        # token", never "the empty string is the token". Spaces around it (a stray one in
+        # an .env file) are dropped: a header value cannot end in one.
+        if isinstance(value, SecretStr):
+            value = value.get_secret_value()
+        if isinstance(value, str):
+            value = value.strip()
+            return value or None
+        return value
+
+    @field_validator("keeper_token")
+    @classmethod
+    def _sendable_token(cls, value: SecretStr | None) -> SecretStr | None:
+        # A token that a client cannot put into an Authorization header (a space inside,
+        # a non-ASCII letter) would give 401 forever: refused at start instead.
+        if value is not None and not KEEPER_TOKEN_PATTERN.fullmatch(value.get_secret_value()):
+            raise ValueError(
+                "the keeper token may use only the letters A-Z a-z, the digits 0-9 and "
+                "- . _ ~ + / with = signs only at the end (RFC 6750 b64token); "
+                "no spaces or other characters"
+            )
+        return value
 
     @field_validator("timezone")
     @classmethod

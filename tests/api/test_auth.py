@@ -104,3 +104,37 @@ def test_an_empty_token_setting_means_no_token(monkeypatch: pytest.MonkeyPatch) 
     token = Settings().keeper_token
     assert token is not None and token.get_secret_value() == TOKEN
     assert TOKEN not in repr(Settings())  # a secret stays out of logs and tracebacks
+
+
+def test_a_token_a_header_cannot_carry_is_refused_at_start(
+    monkeypatch: pytest.MonkeyPatch,
+) -> None:
+    # RFC 6750 §2.1: b64token = 1*( ALPHA / DIGIT / "-" / "." / "_" / "~" / "+" / "/" ) *"="
+    for bad in ("clé", "ab’c", "two words", "a=b", "tab\there"):
+        monkeypatch.setenv("MASTWATCH_KEEPER_TOKEN", bad)
+        with pytest.raises(ValueError, match=r"only the letters A-Z a-z, the digits 0-9"):
+            Settings()
+    for good in ("Q0QRC-keepers-7f3a", "a.b_c~d+e/f", "bWFzdA==", "-"):
+        monkeypatch.setenv("MASTWATCH_KEEPER_TOKEN", good)
+        token = Settings().keeper_token
+        assert token is not None and token.get_secret_value() == good
+
+
+def test_spaces_around_the_token_setting_are_dropped(monkeypatch: pytest.MonkeyPatch) -> None:
+    # "abc " in an .env file: a header value cannot end in a space (RFC 9110 §5.5 strips
+    # it), so the keepers could never send it; the server keeps "abc".
+    monkeypatch.setenv("MASTWATCH_KEEPER_TOKEN", f" {TOKEN} \n")
+    token = Settings().keeper_token
+    assert token is not None and token.get_secret_value() == TOKEN
+
+
+async def test_a_sent_token_with_other_characters_is_only_wrong(
+    member: httpx.AsyncClient,
+) -> None:
+    # A header carries Latin-1 bytes (RFC 9110 §5.5 obs-text); such a token is a wrong
+    # token (401), not a server error.
+    headers = [(b"authorization", "Bearer cl\u00e9".encode("latin-1"))]
+    r = await member.post(f"{API}/sites", json={"name": "Hill", "itu_region": 1},
+                          headers=headers)
+    assert r.status_code == 401, r.text
+    assert r.json()["detail"] == "the keeper token is not the server's"

@@ -9,11 +9,14 @@ their own.
 
 One shared secret, not accounts: a club has a few keepers who sweep, and a token is
 what a laptop's outbox and a browser can both keep. The comparison is constant-time
-(``hmac.compare_digest``), so the token cannot be guessed from response times.
+(``hmac.compare_digest``) on SHA-256 digests of both: equal lengths, so neither the token
+nor its length can be guessed from response times. The settings refuse a token that a
+header cannot carry (RFC 6750 b64token characters only).
 """
 
 from __future__ import annotations
 
+import hashlib
 import hmac
 
 from fastapi import Depends, HTTPException, Request
@@ -31,6 +34,12 @@ bearer = HTTPBearer(
     scheme_name="keeper token",
     description="MASTWATCH_KEEPER_TOKEN of the server; needed to change records when set.",
 )
+
+
+def _digest(token: str) -> bytes:
+    # Starlette decodes header values as Latin-1; any text encodes as UTF-8, so a stray
+    # non-ASCII character in a sent token is just a wrong token, never an error.
+    return hashlib.sha256(token.encode("utf-8")).digest()
 
 
 def needs_token(settings: Settings) -> bool:
@@ -56,6 +65,7 @@ def require_keeper(
             "'Authorization: Bearer <token>' (the server's MASTWATCH_KEEPER_TOKEN)",
             headers=challenge,
         )
-    given = credentials.credentials.encode()
-    if not hmac.compare_digest(given, settings.keeper_token.get_secret_value().encode()):
+    if not hmac.compare_digest(
+        _digest(credentials.credentials), _digest(settings.keeper_token.get_secret_value())
+    ):
         raise HTTPException(401, "the keeper token is not the server's", headers=challenge)
