@@ -72,6 +72,11 @@ async def test_dtf_uses_the_recorded_feedline(client: httpx.AsyncClient) -> None
     assert r.status_code == 201, r.text
     body = (await client.get(f"{API}/sweeps/{r.json()['id']}/dtf")).json()
     assert body["cable"] == "RG-58" and body["velocity_factor"] == 0.66
+    # compensation stops growing at the recorded line's far end (docs/feedlines.md)
+    assert body["line_length_m"] == 23.4
+    assert any("held beyond (the line's far end)" in n for n in body["notes"])
+    named = await client.get(f"{API}/sweeps/{r.json()['id']}/dtf", params={"cable": "RG-213"})
+    assert named.json()["line_length_m"] is None  # another cable: the record's length is not its
 
 
 async def test_dtf_errors(client: httpx.AsyncClient) -> None:
@@ -139,8 +144,8 @@ async def test_dtf_view_is_bounded_and_physical(client: httpx.AsyncClient) -> No
     assert r.status_code == 200, r.text
     body = r.json()
     assert body["max_distance_m"] == 20.0
-    assert max(body["distance_m"]) <= 20.0 + body["resolution_m"]
-    assert all(p["distance_m"] <= 20.0 for p in body["peaks"])
+    assert max(body["distance_m"]) <= 20.0 + 0.5 * body["resolution_m"]
+    assert all(p["distance_m"] <= 20.0 + 0.5 * body["resolution_m"] for p in body["peaks"])
     assert not any(abs(p["distance_m"] - 23.4) < body["resolution_m"] for p in body["peaks"])
     assert max(body["reflection"]) <= 1.0
     r = await client.get(f"{API}/sweeps/{sweep_id}/dtf", params={"max_distance_m": 0})

@@ -218,7 +218,8 @@ def test_compensated_open_on_lossy_cable_with_noise_stays_physical(seed: int) ->
     assert r.peaks[0].reflection == pytest.approx(1.0, abs=0.03)
     # the view stops where compensation stops, far short of the 5.6 km range
     assert r.max_distance_m < r.range_m / 4
-    assert r.distance_m[-1] <= r.max_distance_m + r.distance_m[1]
+    # ... and half a resolution cell more, where a reflection at the edge refines to
+    assert r.distance_m[-1] <= r.max_distance_m + 0.5 * r.resolution_m
 
 
 def test_explicit_max_distance_bounds_the_view_and_the_peaks() -> None:
@@ -226,7 +227,8 @@ def test_explicit_max_distance_bounds_the_view_and_the_peaks() -> None:
     sweep = _noisy_open_on(cable, 40.0, 1e-3, 7)
     near = distance_to_fault(sweep, cable=cable, max_distance_m=30.0)
     assert near.max_distance_m == 30.0
-    assert near.peaks == () or all(p.distance_m <= 30.0 for p in near.peaks)
+    assert all(p.distance_m <= 30.0 + 0.5 * near.resolution_m for p in near.peaks)
+    assert not any(abs(p.distance_m - 40.0) < 5 * near.resolution_m for p in near.peaks)
     far = distance_to_fault(sweep, cable=cable, max_distance_m=60.0)
     assert [round(p.distance_m) for p in far.peaks] == [40]
     assert far.to_dict()["max_distance_m"] == 60.0
@@ -262,3 +264,60 @@ def test_asking_for_the_whole_range_with_compensation_stays_bounded() -> None:
     assert [round(p.distance_m) for p in r.peaks] == [0, 17]
     assert any("half the unambiguous range" in n for n in r.notes)
     assert any("held beyond" in n for n in r.notes)
+
+
+@pytest.mark.parametrize("threshold_db", [0.0, -5.0, float("nan"), float("inf")])
+def test_a_threshold_that_is_not_a_return_loss_is_refused(threshold_db: float) -> None:
+    with pytest.raises(AnalysisError, match="peak threshold"):
+        distance_to_fault(_open_at(12.0), 0.66, cable=CABLES["RG-58"], threshold_db=threshold_db)
+
+
+def test_an_open_at_the_edge_of_the_view_is_still_listed() -> None:
+    cable = CABLES["RG-213"]
+    r = distance_to_fault(_noisy_open_on(cable, 12.0, 1e-4, 2), cable=cable, max_distance_m=12.0)
+    assert [round(p.distance_m) for p in r.peaks] == [12]
+
+
+def test_over_unity_without_compensation_is_kept_and_blamed_on_calibration() -> None:
+    # |Γ| = 1.2 at the line input: a calibration fault, not the cable's (no compensation).
+    cable = CABLES["RG-213"]
+    sweep = Sweep(F1601, 1.2 * _noisy_open_on(cable, 12.0, 0.0, 1).gamma)
+    for r in (distance_to_fault(sweep, cable=cable, compensate_loss=False),
+              distance_to_fault(sweep, 0.66)):
+        [peak] = r.peaks
+        assert peak.reflection == pytest.approx(1.2 * np.exp(-2 * 12.0 * float(
+            cable.alpha_np_per_m(np.array([16e6]))[0])), rel=0.03)
+        assert peak.reflection > 1.0
+        assert any("calibration" in n for n in r.notes), r.notes
+        assert not any("compensation" in n for n in r.notes)
+
+
+def _antenna_on_line(cable: CableType, length_m: float) -> Sweep:
+    """A series-RLC antenna (R 50 Ω, Q 15 at 7.1 MHz) at the end of ``length_m`` of cable:
+    its impulse response rings on for tens of metres beyond the line's end."""
+    f = F1601
+    w0, w = 2 * np.pi * 7.1e6, 2 * np.pi * f
+    big_l = 15 * 50.0 / w0
+    z = 50.0 + 1j * (w * big_l - w0**2 * big_l / w)  # 1/(ωC) with C = 1/(ω0²L)
+    gamma = cable.alpha_np_per_m(f) + 2j * np.pi * f / (cable.velocity_factor * C0)
+    return Sweep(f, (z - 50) / (z + 50) * np.exp(-2 * gamma * length_m))
+
+
+def test_with_the_line_length_the_antennas_ringing_is_not_lifted_into_faults() -> None:
+    cable = CABLES["RG-174"]  # lossy: compensation grows fast with distance
+    sweep = _antenna_on_line(cable, 12.0)
+    raw = distance_to_fault(sweep, cable=cable, compensate_loss=False)
+    known = distance_to_fault(sweep, cable=cable, line_length_m=12.0)
+    unknown = distance_to_fault(sweep, cable=cable)
+    # With the length, compensation stops at the line's end: the same reflections as the
+    # raw view, each lifted by the line's whole two-way loss and no more.
+    assert [round(p.distance_m) for p in known.peaks] == [round(p.distance_m) for p in raw.peaks]
+    gain = float(np.exp(2 * 12.0 * known.alpha_np_per_m))
+    for k, r in zip(known.peaks[1:], raw.peaks[1:], strict=True):
+        assert k.reflection == pytest.approx(r.reflection * gain, rel=0.02)
+    assert known.line_length_m == 12.0 and any("far end" in n for n in known.notes)
+    # Without it the growing gain lifts the ringing above the threshold, and a note says so.
+    assert len(unknown.peaks) > len(known.peaks)
+    assert any("give the line length" in n for n in unknown.notes)
+    with pytest.raises(AnalysisError, match="line length"):
+        distance_to_fault(sweep, cable=cable, line_length_m=0.0)

@@ -141,6 +141,13 @@ def dtf(
             "with loss compensation as far as a total reflection stays above the threshold).",
         ),
     ] = None,
+    length: Annotated[
+        str | None,
+        typer.Option(
+            "--length",
+            help="Length of the line (e.g. 30m, 98ft): loss compensation stops growing there.",
+        ),
+    ] = None,
     plot: Annotated[
         Path | None, typer.Option("--plot", help="Draw reflection vs distance (.html or .png).")
     ] = None,
@@ -160,13 +167,19 @@ def dtf(
             raise typer.BadParameter(str(e), param_hint="--cable") from None
     if cable_type is None and vf is None:
         raise typer.BadParameter("give --cable or --vf", param_hint="--cable/--vf")
+    line_length = None
+    if length is not None:
+        try:
+            line_length = parse_length(length)
+        except ValueError as e:
+            raise typer.BadParameter(str(e), param_hint="--length") from None
     name = str(file)
     try:
         sweep = load_sweep(file, columns)
         result = distance_to_fault(
             sweep, vf, window=window, beta=beta, pad=pad, cable=cable_type,
             compensate_loss=not no_loss_comp, threshold_db=threshold_db,
-            max_distance_m=max_distance,
+            max_distance_m=max_distance, line_length_m=line_length,
         )
     except (OSError, RFError) as e:
         raise _fail(name, e) from None

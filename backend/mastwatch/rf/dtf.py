@@ -114,6 +114,7 @@ class DtfResult:
     f_stop_hz: float
     threshold_db: float
     max_distance_m: float
+    line_length_m: float | None = None
     resampled: bool = False
     loss_compensated: bool = False
     alpha_np_per_m: float | None = None
@@ -160,6 +161,7 @@ class DtfResult:
             "span_hz": self.span_hz,
             "threshold_db": self.threshold_db,
             "max_distance_m": self.max_distance_m,
+            "line_length_m": self.line_length_m,
             "resampled": self.resampled,
             "loss_compensated": self.loss_compensated,
             "alpha_np_per_m": self.alpha_np_per_m,
@@ -217,16 +219,19 @@ def distance_to_fault(
     threshold_db: float = DEFAULT_THRESHOLD_DB,
     max_resolution_m: float = DEFAULT_MAX_RESOLUTION_M,
     max_distance_m: float | None = None,
+    line_length_m: float | None = None,
 ) -> DtfResult:
     """Reflection along the line of a line-input sweep (see the module docstring).
 
     ``velocity_factor`` defaults to the cable's; with a ``cable`` its loss is
     compensated (×e^(+2αd), α at the sweep's centre frequency) unless
     ``compensate_loss`` is False. The result covers 0 to ``max_distance_m`` (default:
-    see the module docstring; at most the unambiguous range). Raises AnalysisError
-    when the sweep cannot say anything: no phase, fewer than 32 points, a span too
-    narrow for a resolution cell of ``max_resolution_m`` or less, or a maximum
-    distance that is not a positive length.
+    see the module docstring; at most the unambiguous range). ``line_length_m``, when
+    known, is where the compensation gain stops growing: what comes back from beyond
+    the line's end (the antenna's own ringing) crossed the whole line and no more.
+    Raises AnalysisError when the sweep cannot say anything (no phase, fewer than 32
+    points, a span too narrow for a resolution cell of ``max_resolution_m`` or less)
+    or a parameter is out of its range.
     """
     vf = velocity_factor if velocity_factor is not None else (
         cable.velocity_factor if cable is not None else None
@@ -243,6 +248,12 @@ def distance_to_fault(
         raise AnalysisError(f"pad factor must be a whole number from 1 to 64, got {pad}")
     if max_distance_m is not None and not (math.isfinite(max_distance_m) and max_distance_m > 0):
         raise AnalysisError(f"the maximum distance must be a positive length, got {max_distance_m}")
+    if line_length_m is not None and not (math.isfinite(line_length_m) and line_length_m > 0):
+        raise AnalysisError(f"the line length must be a positive length, got {line_length_m}")
+    if not (math.isfinite(threshold_db) and threshold_db > 0):
+        raise AnalysisError(
+            f"the peak threshold must be a return loss above 0 dB, got {threshold_db}"
+        )
     if not sweep.has_phase:
         raise AnalysisError(
             "distance to fault needs the phase of Γ; this sweep has SWR only "
@@ -296,30 +307,42 @@ def distance_to_fault(
         alpha = float(cable.alpha_np_per_m(np.array([0.5 * (f[0] + f[-1])]))[0])
         floor = float(np.median(mag))
         # Where the two-way loss reaches the threshold: even an open comes back weaker.
-        natural_m = -math.log(height) / (2.0 * alpha) if alpha > 0 else math.inf
+        # (threshold in nepers directly: no log of a tiny height can underflow.)
+        natural_m = threshold_db * math.log(10.0) / 20.0 / (2.0 * alpha) if alpha > 0 else math.inf
         view_m = min(natural_m if max_distance_m is None else max_distance_m, 0.5 * range_m)
         if max_distance_m is not None and max_distance_m > 0.5 * range_m:
             notes.append(
                 "with loss compensation the view stops at half the unambiguous range: the far "
                 "half holds the leakage of reflections near the analyzer (negative delays)"
             )
-        gain_to = min(view_m, natural_m)
+        gain_to = min(view_m, natural_m, line_length_m or math.inf)
         # Negative delays (the far half) get their mirror's gain: no line is there, and the
         # main lobe of a reflection at d = 0 stays symmetric, so it is still found.
         mirrored = np.minimum(distance, m * dd - distance)
         mag = mag * np.exp(2.0 * alpha * np.minimum(mirrored, gain_to))
-        notes.append(
-            f"loss compensated with {cable.name}'s α = {alpha:.4g} Np/m at the sweep centre, "
-            f"out to {gain_to:.4g} m"
-            + (
-                f" and held beyond (there the line's two-way loss exceeds {threshold_db:g} dB)"
-                if gain_to < view_m
-                else ""
+        if alpha > 0:
+            held = ""
+            if gain_to < view_m:
+                held = (
+                    " and held beyond (the line's far end)"
+                    if line_length_m is not None and gain_to == line_length_m
+                    else f" and held beyond (there the line's two-way loss exceeds "
+                    f"{threshold_db:g} dB)"
+                )
+            notes.append(
+                f"loss compensated with {cable.name}'s α = {alpha:.4g} Np/m at the sweep "
+                f"centre, out to {gain_to:.4g} m{held}"
             )
-        )
+        if line_length_m is None and gain_to > 0:
+            notes.append(
+                "beyond the line's end the antenna's own response rings on, and compensation "
+                "lifts it too: give the line length to stop the gain there"
+            )
     if window == "rect":
         notes.append("rectangular window: side lobes at about −13 dB can show as false peaks")
 
+    # A reflection at the view's edge refines to a little past it: keep half a cell more.
+    edge_m = view_m + 0.5 * resolution
     ext = np.concatenate([mag[-1:], mag, mag[:1]])  # circular: a peak at d = 0 counts
     idx, _ = find_peaks(ext, height=height)
     peaks = []
@@ -329,24 +352,30 @@ def distance_to_fault(
         # A reflection at the reference plane refines to a hair below sample 0: it is at
         # d = 0, not at the far end of the range (which `pos % m` would make of it).
         d = max(pos, 0.0) * dd
-        if d > view_m or (compensated and raw[i] < NOISE_MARGIN * floor):
+        if d > edge_m or (compensated and raw[i] < NOISE_MARGIN * floor):
             continue
-        if value > 1.0:
-            if value > OVER_UNITY_MARGIN:
-                over_unity.append((float(d), value))
-            value = 1.0
+        if value > OVER_UNITY_MARGIN:
+            over_unity.append((float(d), value))
+        if compensated and value > 1.0:
+            value = 1.0  # a passive line cannot give more (module docstring)
         with np.errstate(divide="ignore"):
             rl = float(-20.0 * np.log10(value)) if value > 0 else math.inf
         peaks.append(DtfPeak(float(d), value, rl))
     peaks.sort(key=lambda p: p.distance_m)
-    if over_unity and cable is not None:
+    if over_unity:
         d, value = max(over_unity, key=lambda dv: dv[1])
-        notes.append(
-            f"after compensation the reflection at {d:.1f} m reads |ρ| = {value:.2f}, which a "
-            f"passive line cannot give: the line loses less than {cable.name} would (check "
-            "the cable type and length); shown as 1"
-        )
-    keep = distance <= view_m + 0.5 * dd
+        if compensated and cable is not None:
+            notes.append(
+                f"after compensation the reflection at {d:.1f} m reads |ρ| = {value:.2f}, which "
+                f"a passive line cannot give: the line loses less than {cable.name} would "
+                "(check the cable type and length); shown as 1"
+            )
+        else:
+            notes.append(
+                f"the reflection at {d:.1f} m reads |ρ| = {value:.2f}, more than a passive line "
+                "returns: check the analyzer's calibration (open, short, load) at this plane"
+            )
+    keep = distance <= edge_m
     distance, mag = distance[keep], np.minimum(mag[keep], 1.0) if compensated else mag[keep]
 
     return DtfResult(
@@ -364,6 +393,7 @@ def distance_to_fault(
         f_stop_hz=float(f[-1]),
         threshold_db=float(threshold_db),
         max_distance_m=float(view_m),
+        line_length_m=float(line_length_m) if line_length_m is not None else None,
         resampled=resampled,
         loss_compensated=compensated,
         alpha_np_per_m=alpha,

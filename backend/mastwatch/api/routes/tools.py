@@ -54,6 +54,9 @@ class DtfOut(BaseModel):
         description="the view (distance_m, peaks) ends here; with loss compensation, by "
         "default where the line's two-way loss reaches threshold_db"
     )
+    line_length_m: float | None = Field(
+        default=None, description="the line length the compensation stopped at, if known"
+    )
     resampled: bool
     loss_compensated: bool
     alpha_np_per_m: float | None
@@ -143,12 +146,19 @@ def sweep_dtf(
         float | None,
         Query(gt=0, description="look this far along the line (default: see docs/feedlines.md)"),
     ] = None,
+    line_length_m: Annotated[
+        float | None,
+        Query(gt=0, description="where the loss compensation stops growing; default: the "
+              "recorded feedline's length when its cable is used"),
+    ] = None,
     arrays: bool = True,
     max_points: Annotated[int, Query(ge=16, le=200_000)] = 2000,
 ) -> dict[str, Any]:
     """Distance to fault of the sweep as measured (taken at the radio end of the line)."""
     row = sweeps.get_sweep(session, sweep_id, arrays=True)
     cable_type = _cable(session, cable, vf, row.feedline_snapshot)
+    if line_length_m is None and cable is None and vf is None and row.feedline_snapshot:
+        line_length_m = feedline_from_snapshot(row.feedline_snapshot).length_m or None
     result = distance_to_fault(
         sweeps.sweep_at(row, "measured"),
         vf,
@@ -159,6 +169,7 @@ def sweep_dtf(
         compensate_loss=compensate_loss,
         threshold_db=threshold_db,
         max_distance_m=max_distance_m,
+        line_length_m=line_length_m,
     )
     body = result.to_dict(arrays=arrays, max_points=max_points)
     return {"sweep_id": sweep_id, "plane": "measured", **body, "safety": SAFETY_NOTE}
