@@ -454,3 +454,23 @@ def test_a_dip_between_points_inside_the_chart_is_still_found() -> None:
     mag = 0.2 * math.cos(math.radians(80))  # the chord's closest approach to the centre
     assert m.min_swr == pytest.approx((1 + mag) / (1 - mag), rel=1e-12)
     assert m.min_swr_hz == pytest.approx(7.05e6, rel=1e-12)
+
+
+@pytest.mark.parametrize("decimals", [6, 9])
+def test_an_open_stored_as_a_file_stores_it_still_has_no_finite_swr(decimals: int) -> None:
+    # Touchstone files keep Γ to 6–9 digits (RI): |Γ| of a lossless open then reads
+    # 0.999999… or 1.000000…, and the rule must hold for the file, not only for exact data.
+    f = np.linspace(6.9e6, 7.3e6, 201)
+    g = _open_line(f, 500.0).gamma
+    stored = np.round(g.real, decimals) + 1j * np.round(g.imag, decimals)
+    m = compute_metrics(Sweep(f, stored), [BAND_40M_R1])
+    assert math.isinf(m.min_swr)
+    doc = json.loads(json.dumps(m.to_dict(), allow_nan=False))
+    assert doc["min_swr"] is None
+
+
+def test_just_inside_the_rim_tolerance_the_swr_is_a_number() -> None:
+    # |Γ| = 0.999 everywhere (a lossy open): SWR 1999 at every point, a reading.
+    f = np.linspace(6.9e6, 7.3e6, 201)
+    m = compute_metrics(Sweep(f, 0.999 * _open_line(f, 500.0).gamma))
+    assert math.isfinite(m.min_swr) and m.min_swr <= (1 + 0.999) / (1 - 0.999)

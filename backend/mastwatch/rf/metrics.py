@@ -29,7 +29,10 @@ frequency (Foster's reactance theorem), so the chord's dip inside the chart woul
 artefact: an open or a short would get a finite "minimum SWR" of a few hundred from a
 sweep whose every point says infinite (DESIGN.md: SWR is infinite where |Γ| ≥ 1, and
 the API returns null). |Γ(t)|² = (a + b·t)² is still a convex quadratic, so every
-query below treats those segments with the same closed forms.
+query below treats those segments with the same closed forms. Between two rim points
+|Γ| (and so SWR) does not depend on which way the phase turns; the impedance does: the
+shorter arc is taken, so a phase step of π or more between two samples (a sweep too
+coarse for the line's length) leaves the impedance between them undetermined.
 
 Resonances: where X = Im Z changes sign between adjacent points, located by linear
 interpolation of X; series if X rises through zero (dX/df > 0), parallel if it
@@ -229,8 +232,10 @@ class SweepMetrics(_Result):
 # -- the piecewise-linear Γ model -----------------------------------------------------
 
 
-RIM_TOL = 1e-12
-"""|Γ| within this of 1 is on the rim (SWR above 2·10¹² is round-off, not a reading)."""
+RIM_TOL = 1e-4
+"""|Γ| within this of 1 is on the rim, and its SWR infinite. SWR above 2·10⁴ is not a
+reading: files store Γ to 6–9 digits, and an analyzer's directivity (40–50 dB for a
+good bridge, common practice, from memory) leaves |Γ| uncertain by 0.003–0.01 there."""
 
 
 class _Model:
