@@ -52,11 +52,35 @@ async function parse(response) {
 const TOKEN_KEY = "mastwatch.keeperToken";
 let askToken = null;
 
+// RFC 6750 §2.1 b64token, as the server's settings require: only these characters can be
+// sent in the header (fetch throws a TypeError on others, e.g. a pasted "’").
+const TOKEN_PATTERN = /^[A-Za-z0-9._~+/-]+=*$/;
+
+/** Why a typed token cannot be the keeper token, or null when it can. */
+export function tokenProblem(token) {
+  if (!token) return "Type the token.";
+  if (TOKEN_PATTERN.test(token)) return null;
+  const bad = [...new Set([...token].filter((c) => !/[A-Za-z0-9._~+/=-]/.test(c)))];
+  const codePoint = (c) => `U+${c.codePointAt(0).toString(16).toUpperCase().padStart(4, "0")}`;
+  const named = [...new Set(bad.map((c) => (/\s/.test(c) ? "a space" : `${c} (${codePoint(c)})`)))];
+  const what = named.length
+    ? `It contains ${named.join(" and ")}, which a keeper token never has.`
+    : "An “=” may only come at the end.";
+  return `${what} A token is made of letters A–Z, a–z, digits and - . _ ~ + / only, with = signs only at the end.`;
+}
+
+/** The line shown when a change was refused and no token was given. */
+export const NEEDS_TOKEN = "This change needs the keeper token.";
+
 /** Register the function that asks for the token: ({wrong}) => Promise<string|null>. */
 export function onTokenNeeded(fn) { askToken = fn; }
 
 export function keeperToken() {
-  try { return window.localStorage.getItem(TOKEN_KEY); } catch { return null; }
+  let token = null;
+  try { token = window.localStorage.getItem(TOKEN_KEY); } catch { return null; }
+  // One kept before tokens were checked, which no header can carry: ask afresh instead.
+  if (token && tokenProblem(token)) { setKeeperToken(null); return null; }
+  return token;
 }
 
 export function setKeeperToken(token) {
@@ -78,7 +102,8 @@ async function withToken(send) {
   } catch (err) {
     if (!(err instanceof ApiError) || err.status !== 401 || !askToken) throw err;
     const token = await askToken({ wrong: Boolean(keeperToken()) });
-    if (!token) throw err;
+    // Cancelled: say it to a member plainly (the server's detail is for admins).
+    if (!token || tokenProblem(token)) throw new ApiError(NEEDS_TOKEN, { status: 401 });
     setKeeperToken(token);
     try {
       return await send({ Authorization: `Bearer ${token}` });

@@ -133,9 +133,10 @@ class FileItem {
     };
   }
 
+  /** Upload this file; resolves "saved", "kept" (offline), "needs-token" or "failed". */
   async upload() {
     const antennaId = this.antenna.value;
-    if (!antennaId) { this.setState("Choose the antenna first.", "failed"); this.antenna.focus(); return; }
+    if (!antennaId) { this.setState("Choose the antenna first.", "failed"); this.antenna.focus(); return "failed"; }
     this.save.disabled = true;
     this.progress.classList.remove("hidden");
     this.progress.value = 0;
@@ -154,6 +155,7 @@ class FileItem {
       }
       this.el.dataset.result = status === 200 || body.duplicate ? "duplicate" : "saved";
       this.remove.textContent = "Clear";
+      return "saved";
     } catch (err) {
       this.progress.classList.add("hidden");
       if (err.offline) {
@@ -161,13 +163,29 @@ class FileItem {
         this.setState("Offline: kept on this device. Use “Send pending” when the network is back.", "duplicate");
         this.done = true;
         this.ctx.refreshPending();
-        return;
+        return "kept";
       }
       this.save.disabled = false;
       this.setState("Not saved.", "failed");
       fill(this.info, errorBox(err), this.preview ? metricsTable(this.preview) : null);
+      return err.status === 401 ? "needs-token" : "failed";
     }
   }
+}
+
+/** Whether the server refused the file itself (4xx), so keeping it would not help. */
+function refusesTheFile(err) {
+  return err instanceof api.ApiError && err.status >= 400 && err.status < 500
+    && ![401, 408, 429].includes(err.status);
+}
+
+function waitReason(err) {
+  if (err instanceof api.ApiError && err.offline) return "the server cannot be reached; the files keep waiting.";
+  if (err instanceof api.ApiError && err.status === 401) return `${api.NEEDS_TOKEN} The files keep waiting.`;
+  if (err instanceof api.ApiError && err.status) {
+    return `the server could not take them now (HTTP ${err.status}); the files keep waiting. Try again later.`;
+  }
+  return `${err && err.message ? err.message : String(err)}; the files keep waiting.`;
 }
 
 export async function render(root, _params, query) {
@@ -197,29 +215,35 @@ export async function render(root, _params, query) {
     }
   }
 
-  async function refreshPending() {
+  async function refreshPending(stopped = null) {
     const waiting = await offline.pending();
     pendingBox.classList.toggle("hidden", !waiting.length);
     if (!waiting.length) return;
     fill(pendingBox, `${waiting.length} sweep file${waiting.length > 1 ? "s" : ""} waiting on this device. `,
-      h("button", { type: "button", onclick: sendPending }, "Send pending"));
+      h("button", { type: "button", onclick: sendPending }, "Send pending"),
+      stopped ? h("p", { class: "error", role: "alert" }, `Not sent: ${stopped}`) : null);
   }
 
   async function sendPending() {
+    let stopped = null;
     for (const entry of await offline.pending()) {
       try {
         await api.upload(entry.antennaId, offline.asFile(entry), entry.fields);
         await offline.drop(entry.id);
       } catch (err) {
-        // Offline, or no keeper token given: the file is not at fault, it keeps waiting.
-        if (err.offline || err.status === 401) break;
+        if (!refusesTheFile(err)) {
+          // Offline, no keeper token, a server or proxy that is down (5xx), or a failure
+          // in this browser: not the file's fault. It and the rest keep waiting.
+          stopped = waitReason(err);
+          break;
+        }
         await offline.drop(entry.id);
         list.prepend(h("div", { class: "file-card" }, h("span", { class: "fname" }, entry.name), errorBox(err)));
       }
     }
-    refreshPending();
+    refreshPending(stopped);
   }
-  window.addEventListener("online", refreshPending);
+  window.addEventListener("online", () => refreshPending());
 
   const input = h("input", { type: "file", multiple: true, id: "file-input", class: "hidden",
     accept: ".s1p,.s2p,.ts,.csv,.txt,text/csv,text/plain" });
@@ -239,7 +263,10 @@ export async function render(root, _params, query) {
     addFiles([...(e.dataTransfer?.files ?? [])]);
   });
   const saveAll = h("button", { type: "button", class: "primary", onclick: async () => {
-    for (const item of ctx.items) if (!item.done && !item.save.disabled) await item.upload();
+    for (const item of ctx.items) {
+      // No token given for one file: do not ask again for each of the others.
+      if (!item.done && !item.save.disabled && (await item.upload()) === "needs-token") break;
+    }
   } }, "Save all previewed");
 
   fill(root,
