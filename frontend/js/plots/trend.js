@@ -7,9 +7,11 @@ import { VERDICT_COLOURS, VERDICT_SYMBOLS, normalVerdict } from "../verdict.js";
 import { baseLayout, config, loadPlotly, toCsv } from "./common.js";
 
 // The trend metrics of the API (mastwatch.rf.metric_table), with display scaling.
-// `span` is the smallest y range drawn (absolute, or `rel` × the mean; not below `floor`):
-// the size of the change the verdict watches for (services/thresholds.py), so a healthy
-// antenna's sweep-to-sweep noise looks flat instead of filling the plot like a drift.
+// `span` is the smallest y range drawn (absolute, or `rel` × the mean): the size of the
+// change the verdict watches for (services/thresholds.py), so a healthy antenna's
+// sweep-to-sweep noise looks flat instead of filling the plot like a drift. `floor` and
+// `ceil` are what the metric can be (SWR ≥ 1, a fraction of the band 0–100 %): the axis
+// never shows values outside them.
 export const TREND_METRICS = {
   min_swr: { label: "Min SWR", unit: "", scale: 1, span: 0.5, floor: 1 },
   min_swr_hz: { label: "Frequency of min SWR", unit: "MHz", scale: 1e-6, rel: 0.015 },
@@ -20,7 +22,7 @@ export const TREND_METRICS = {
   r_center: { label: "R at centre", unit: "Ω", scale: 1, span: 10 },
   x_center: { label: "X at centre", unit: "Ω", scale: 1, span: 10 },
   q: { label: "Q", unit: "", scale: 1, rel: 0.3 },
-  usable_fraction_2: { label: "Band usable at SWR≤2", unit: "%", scale: 100, span: 25, floor: 0 },
+  usable_fraction_2: { label: "Band usable at SWR≤2", unit: "%", scale: 100, span: 25, floor: 0, ceil: 100 },
 };
 
 /** The y range to draw: the data's, widened to the metric's smallest span. */
@@ -31,11 +33,13 @@ export function trendRange(values, spec) {
   const mean = ys.reduce((a, b) => a + b, 0) / ys.length;
   const least = spec.span ?? (spec.rel ? spec.rel * Math.abs(mean) : 0);
   if (!(least > 0) || hi - lo >= least) return undefined; // plotly's own autorange
-  const pad = 0.08 * least; // room for the markers
-  const mid = (lo + hi) / 2;
-  // never below what the metric can be (an SWR of 1), so the axis does not show the impossible
-  const bottom = Math.max(mid - least / 2, spec.floor ?? -Infinity);
-  return [bottom - pad, bottom + least + pad];
+  const height = 1.16 * least; // 8 % each side: room for the markers
+  const floor = spec.floor ?? -Infinity, ceil = spec.ceil ?? Infinity;
+  // Centred on the data, then slid (not cut) inside what the metric can be; cut only
+  // when the metric's whole extent is smaller than the window.
+  let bottom = (lo + hi) / 2 - height / 2;
+  bottom = Math.max(Math.min(bottom, ceil - height), floor);
+  return [bottom, Math.min(bottom + height, ceil)];
 }
 
 const EVENT_STYLE = {
@@ -58,8 +62,10 @@ export async function drawTrend(el, trend, { metric, statusById = {}, onOpen, fi
   const x = pts.map((p) => p.measured_at);
   const y = pts.map((p) => (p.value === null || p.value === undefined ? null : p.value * spec.scale));
   const unit = spec.unit ? ` ${spec.unit}` : "";
+  const range = trendRange(y, spec);
   const data = [{
     type: "scatter", mode: "lines+markers", name: spec.label, x, y,
+    cliponaxis: false, // a point on the axis's end (SWR 1, 100 %) is drawn whole
     customdata: pts.map((p, i) => [p.sweep_id, status[i]]),
     line: { color: "#2f5d62", width: 1.5 },
     marker: { size: 10, color: status.map((s) => VERDICT_COLOURS[s]), symbol: status.map((s) => VERDICT_SYMBOLS[s]),
@@ -85,7 +91,7 @@ export async function drawTrend(el, trend, { metric, statusById = {}, onOpen, fi
   const layout = baseLayout({
     xaxis: { type: "date", gridcolor: "#ece8df" },
     yaxis: { title: { text: `${spec.label}${spec.unit ? ` (${spec.unit})` : ""}` }, gridcolor: "#ece8df",
-      ...(trendRange(y, spec) ? { range: trendRange(y, spec), autorange: false } : {}) },
+      ...(range ? { range, autorange: false } : {}) },
     shapes, annotations, showlegend: false, margin: { l: 60, r: 16, t: 24, b: 40 },
   });
   await Plotly.react(el, data, layout, config(filename));
