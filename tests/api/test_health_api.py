@@ -234,3 +234,25 @@ async def test_antenna_thresholds_change_the_stored_verdict(client: httpx.AsyncC
     status, reasons = await sweep_status(client, s["id"])
     assert status == "watch"
     assert reasons[0].startswith("40m: resonance moved 60 kHz down")
+
+
+async def test_board_says_whether_a_band_centre_was_swept(client: httpx.AsyncClient) -> None:
+    # 40 m in ITU Region 1 is 7.000–7.200 MHz (ITU RR Article 5), centre 7.100 MHz; a
+    # sweep of 7.13–7.30 MHz overlaps the band but never reaches its centre.
+    site = await make_site(client)
+    ant = await make_antenna(client, site["id"])
+    data = rlc_touchstone(7.2e6, 50.0, 10.0, f_start_hz=7.13e6, f_stop_hz=7.30e6, points=101)
+    r = await upload(client, ant["id"], data, measured_at="2026-05-02T10:00:00")
+    assert r.status_code == 201, r.text
+    card = next(c for c in (await client.get(f"{API}/board")).json()["sites"][0]["antennas"]
+                if c["antenna"]["id"] == ant["id"])
+    assert card["swr_center"] == [{"band": "40m", "swr_center": None, "centre_swept": False}]
+
+    wide = rlc_touchstone(7.1e6, 50.0, 10.0, f_start_hz=6.9e6, f_stop_hz=7.3e6, points=101)
+    r = await upload(client, ant["id"], wide, measured_at="2026-05-03T10:00:00")
+    assert r.status_code == 201, r.text
+    card = next(c for c in (await client.get(f"{API}/board")).json()["sites"][0]["antennas"]
+                if c["antenna"]["id"] == ant["id"])
+    (centre,) = card["swr_center"]
+    # resonant at the centre with R = Z0: SWR 1 (Pozar §2.3, Γ = 0)
+    assert centre["centre_swept"] is True and centre["swr_center"] == pytest.approx(1.0, abs=0.01)

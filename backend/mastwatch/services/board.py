@@ -4,10 +4,13 @@ One cheap query path, four SELECTs whatever the size of the club, none touching 
 sweep arrays (a test checks the SQL):
 
     sites · antennas · latest sweep per antenna (metadata + stored verdict) ·
-    sweep_metrics rows (antenna, sweep, band, plane, time, min SWR, SWR at centre)
+    sweep_metrics rows (antenna, sweep, band, plane, time, min SWR, SWR and return loss
+    at centre)
 
 The verdict shown is the one stored with the antenna's latest sweep at upload (or
-after a baseline change). SWR at band centres comes from that sweep's metrics; the
+after a baseline change). SWR at band centres comes from that sweep's metrics, with
+``centre_swept``: a null ``swr_center`` is ∞ when the centre was swept, "not measured"
+when the sweep does not reach it (then the return loss there is null too); the
 sparkline is, per sweep, the lowest min SWR over the antenna's bands of interest,
 at the feedpoint plane where the sweep has it (the last SPARK_POINTS sweeps).
 """
@@ -64,8 +67,8 @@ def board(session: Session, settings: Settings, now: datetime | None = None) -> 
     ):
         if r.antenna_id not in latest or r.id > latest[r.antenna_id].id:
             latest[r.antenna_id] = r
-    # (antenna, sweep) → plane → band → (min_swr, swr_center); and the sweep times.
-    per_sweep: dict[tuple[int, int], dict[str, dict[str, tuple[Any, Any]]]] = {}
+    # (antenna, sweep) → plane → band → (min_swr, swr_center, centre swept); sweep times.
+    per_sweep: dict[tuple[int, int], dict[str, dict[str, tuple[Any, Any, bool]]]] = {}
     times: dict[tuple[int, int], datetime] = {}
     for m in session.execute(
         select(
@@ -76,13 +79,20 @@ def board(session: Session, settings: Settings, now: datetime | None = None) -> 
             SweepMetrics.measured_at,
             SweepMetrics.min_swr,
             SweepMetrics.swr_center,
+            SweepMetrics.return_loss_center_db,
         ).order_by(SweepMetrics.antenna_id, SweepMetrics.measured_at, SweepMetrics.sweep_id)
     ):
         key = (m.antenna_id, m.sweep_id)
-        per_sweep.setdefault(key, {}).setdefault(m.plane, {})[m.band] = (m.min_swr, m.swr_center)
+        # Swept centre: an SWR (∞ stored as null has return loss 0 dB) or a return loss.
+        swept = m.swr_center is not None or m.return_loss_center_db is not None
+        per_sweep.setdefault(key, {}).setdefault(m.plane, {})[m.band] = (
+            m.min_swr,
+            m.swr_center,
+            swept,
+        )
         times[key] = m.measured_at
 
-    def plane_of(key: tuple[int, int]) -> dict[str, tuple[Any, Any]]:
+    def plane_of(key: tuple[int, int]) -> dict[str, tuple[Any, Any, bool]]:
         planes = per_sweep.get(key, {})
         return planes.get("feedpoint") or planes.get("measured") or {}
 
@@ -114,7 +124,7 @@ def board(session: Session, settings: Settings, now: datetime | None = None) -> 
             card["stale"] = age > settings.stale_after_days
             values = plane_of((a.id, last.id))
             card["swr_center"] = [
-                {"band": b, "swr_center": _finite(values[b][1])}
+                {"band": b, "swr_center": _finite(values[b][1]), "centre_swept": values[b][2]}
                 for b in (bands or sorted(values))
                 if b in values
             ]
