@@ -19,12 +19,23 @@ export function swr(value, digits = 2) {
   return value.toFixed(digits);
 }
 
-/** SWR at a band's centre from its metrics row: `null` is ∞ only when the centre was
- *  swept; when it was not, every centre value is `null` (return loss too) and it shows —. */
-export function swrAtCentre(row, digits = 2) {
+/** Whether a band's centre lies in the sweep: the board says so (`centre_swept`); a full
+ *  metrics row shows it by its centre values, all `null` (return loss too) when not. */
+export function centreSwept(row) {
+  if (typeof row.centre_swept === "boolean") return row.centre_swept;
   const rl = row.return_loss_center_db;
-  if (row.swr_center === null && (rl === null || rl === undefined)) return "—";
-  return swr(row.swr_center, digits);
+  return !(row.swr_center === null && (rl === null || rl === undefined));
+}
+
+/** SWR at a band's centre from its metrics row: `null` is ∞ only when the centre was
+ *  swept; when it was not, it shows — (not measured). */
+export function swrAtCentre(row, digits = 2) {
+  return centreSwept(row) ? swr(row.swr_center, digits) : "—";
+}
+
+/** Min SWR over a band from its metrics row: — for a band the sweep does not reach. */
+export function minSwrInBand(row, digits = 2) {
+  return row.coverage > 0 ? swr(row.min_swr, digits) : "—";
 }
 
 export function num(value, digits = 2, unit = "") {

@@ -2,6 +2,7 @@
 // of a response shape is one edit here, not one per page.
 
 import * as api from "./api.js";
+import { centreSwept } from "./format.js";
 
 /**
  * The metrics of a sweep (or an analyze preview) at one plane: {bands, resonances, ...}
@@ -74,7 +75,8 @@ function fromBoard(body) {
           reasons: reasonsOf(a).length ? reasonsOf(a) : reasonsOf(last),
           lastSweep: last ? { id: last.id ?? last.sweep_id, measured_at: last.measured_at } : null,
           swrCenter: Array.isArray(bands)
-            ? bands.map((b) => ({ band: b.band, value: b.swr_center ?? b.value ?? null }))
+            ? bands.map((b) => ({ band: b.band, value: b.swr_center ?? b.value ?? null,
+              swept: b.centre_swept ?? true }))
             : Object.entries(bands).map(([band, value]) => ({ band, value })),
           spark: (a.sparkline ?? a.spark ?? a.min_swr_series ?? []).map((p) => ({
             t: p.measured_at ?? p.t, v: p.value ?? p.min_swr ?? p.v,
@@ -104,7 +106,7 @@ async function composeBoard() {
     return { siteId: a.site_id, card: cardFrom(a, {
       status: statusOf(full), reasons: reasonsOf(full),
       lastSweep: full ? { id: full.id, measured_at: full.measured_at } : null,
-      swrCenter: rows.map((r) => ({ band: r.band, value: r.swr_center })),
+      swrCenter: rows.map((r) => ({ band: r.band, value: r.swr_center, swept: centreSwept(r) })),
       spark,
     }) };
   }));

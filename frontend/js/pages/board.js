@@ -31,7 +31,8 @@ function card(c, staleDays) {
   c.swrCenter.length
     ? h("div", { class: "swr-list", "aria-label": "SWR at band centres" },
       h("span", { class: "muted" }, "SWR at centre:"),
-      c.swrCenter.map((s) => h("span", {}, `${s.band} `, h("b", {}, fmt.swr(s.value)))))
+      c.swrCenter.map((s) => h("span", {}, `${s.band} `,
+        h("b", {}, fmt.swrAtCentre({ swr_center: s.value, centre_swept: s.swept })))))
     : null,
   c.reasons.length ? h("ul", { class: "reasons" }, c.reasons.slice(0, 3).map((r) => h("li", {}, r))) : null,
   sparkline(c.spark, `Min SWR over time, ${c.name}`));

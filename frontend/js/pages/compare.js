@@ -12,12 +12,13 @@ import { drawSmith, smithCsv } from "../plots/smith.js";
 import { badge } from "../verdict.js";
 import { PLOT_POINTS } from "./antenna.js";
 
-// Rows of the difference table: metric field, label, display of a value, of a difference.
+// Rows of the difference table: metric field, label, display of a value (with its band's
+// row, for what "null" means there), of a difference.
 const ROWS = [
-  ["min_swr", "Min SWR", (v) => fmt.swr(v), (d) => signed(d, 2)],
+  ["min_swr", "Min SWR", (v, row) => fmt.minSwrInBand({ ...row, min_swr: v }), (d) => signed(d, 2)],
   ["min_swr_hz", "Frequency of min SWR", (v) => fmt.mhz(v), signedHz],
   ["resonance_hz", "Resonance", (v) => fmt.mhz(v), signedHz],
-  ["swr_center", "SWR at band centre", (v) => fmt.swr(v), (d) => signed(d, 2)],
+  ["swr_center", "SWR at band centre", (v, row) => fmt.swrAtCentre({ ...row, swr_center: v }), (d) => signed(d, 2)],
   ["bandwidth_2_hz", "SWR≤2 bandwidth", (v) => fmt.khz(v), signedHz],
   ["usable_fraction_2", "Band usable at SWR≤2", (v) => pct(v), (d) => signed(d === null ? null : d * 100, 0, " %")],
   ["return_loss_center_db", "Return loss at centre", (v) => fmt.num(v, 1, "dB"), (d) => signed(d, 1, " dB")],
@@ -60,8 +61,8 @@ function diffTable(a, b, plane) {
         const vb = y[key] ?? null;
         const d = Number.isFinite(va) && Number.isFinite(vb) ? vb - va : null;
         csvRows.push([band, key, va, vb, d]);
-        return h("tr", { dataset: { metric: key } }, h("td", {}, label), h("td", { class: "num" }, show(va)),
-          h("td", { class: "num" }, show(vb)), h("td", { class: "num" }, showDiff(d)));
+        return h("tr", { dataset: { metric: key } }, h("td", {}, label), h("td", { class: "num" }, show(va, x)),
+          h("td", { class: "num" }, show(vb, y)), h("td", { class: "num" }, showDiff(d)));
       }))));
   });
   return { el: h("div", {}, tables), rows: csvRows };

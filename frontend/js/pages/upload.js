@@ -37,7 +37,7 @@ function metricsTable(result) {
     rows.length ? h("div", { class: "table-wrap" }, h("table", {},
       h("thead", {}, h("tr", {}, h("th", {}, "Band"), h("th", { class: "num" }, "Min SWR"),
         h("th", { class: "num" }, "SWR at centre"), h("th", { class: "num" }, "SWR≤2 width"))),
-      h("tbody", {}, rows.map((b) => h("tr", {}, h("td", {}, b.band), h("td", { class: "num" }, fmt.swr(b.min_swr)),
+      h("tbody", {}, rows.map((b) => h("tr", {}, h("td", {}, b.band), h("td", { class: "num" }, fmt.minSwrInBand(b)),
         h("td", { class: "num" }, fmt.swrAtCentre(b)), h("td", { class: "num" }, fmt.khz(b.bandwidth_2_hz))))))) : null,
     result.metrics.feedpoint_note ? h("p", { class: "muted small" }, result.metrics.feedpoint_note) : null);
 }
