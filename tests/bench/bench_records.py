@@ -25,16 +25,15 @@
    select of the same three columns. Target: service/raw ≤ 2×. Plus the trend's time at
    1,000 vs 10,000 sweeps: it must grow no faster than the rows returned (ratio ≲ 10).
 
-Measured 2026-12-02 (shared 2-core machine, 500 uploads; ratios moved by ±20 % between
-runs): API/bare SQLite 3.8–5.9×, PostgreSQL 2.2×; API/(bare + computation) SQLite
-1.8–2.4×, PostgreSQL 1.8×; without the hook 1.4×/1.4× of bare + computation. The
-computation alone is 2.1–2.5× bare on SQLite (1.2× on PostgreSQL, where bare's round
-trips and commit weigh more). What remains between API and bare + computation: the
-ORM insert of the sweep and the executemany of its ~20 metrics rows, the verdict
-(noise and open/short checks on the arrays, the baseline and previous-sweep reads) and
-the UPDATE that stores it, the antenna/duplicate query, and the larger form and
-response. Trend: service/raw SQLite 1.3–2.1× (higher late in this process than in a
-fresh one), PostgreSQL 1.15×.
+Measured 2026-12-02 (shared 2-core machine, 500 uploads, three runs; ratios moved by
+±20 % between runs): API/bare SQLite 3.8–5.9×, PostgreSQL 2.2–2.3×; API/(bare +
+computation) SQLite 1.8–2.4×, PostgreSQL 1.2–1.8×; without the hook 1.4–1.6× (SQLite)
+and 1.2–1.4× (PostgreSQL) of bare + computation. The computation alone is 2.1–2.5× bare
+on SQLite. What remains between API and bare + computation: the ORM insert of the sweep
+and the executemany of its ~20 metrics rows, the verdict (noise and open/short checks
+on the arrays, the baseline and previous-sweep reads) and the UPDATE that stores it,
+the antenna/duplicate query, and the larger form and response. Trend: service/raw
+SQLite 1.3–1.5×, PostgreSQL 1.15–1.2×; endpoint/raw 2.2–2.7×.
 
 The trend rows are bulk-inserted (the query reads sweep_metrics only, so how they got
 there does not matter). PostgreSQL is skipped, saying why, when it cannot be reached
@@ -47,6 +46,7 @@ rather than the absolute times.
 from __future__ import annotations
 
 import asyncio
+import gc
 import hashlib
 import statistics
 import tempfile
@@ -86,12 +86,17 @@ TREND_REPEATS = 15
 
 
 def _round_robin_medians(fns: dict[str, Callable[[], object]], repeats: int) -> dict[str, float]:
-    """Median time of each function, run in turns so load changes hit all of them alike."""
+    """Median time of each function, run in turns so load changes hit all of them alike.
+
+    The garbage collector runs before each call: otherwise a variant pays for the
+    previous one's garbage (the endpoint leaves megabytes of JSON behind), not its own.
+    """
     for fn in fns.values():
         fn()  # warm-up
     times: dict[str, list[float]] = {name: [] for name in fns}
     for _ in range(repeats):
         for name, fn in fns.items():
+            gc.collect()
             t0 = time.perf_counter()
             fn()
             times[name].append(time.perf_counter() - t0)
