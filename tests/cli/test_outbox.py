@@ -208,3 +208,14 @@ async def test_without_the_keeper_token_nothing_is_lost_and_a_push_with_it_sends
         results = await box.push(ok)
         assert [r.outcome for r in results] == ["created", "created"]
         assert box.entries() == []
+
+
+def test_push_refuses_a_token_no_header_can_carry(tmp_path: Path) -> None:
+    # RFC 6750 §2.1 b64token; a typographic quote (U+2019) is the usual paste accident.
+    r = CliRunner().invoke(
+        cli_app,
+        ["outbox", "push", "--server", "http://127.0.0.1:9", "--token", "ab\u2019c",
+         "--dir", str(tmp_path / "outbox")],
+    )
+    assert r.exit_code == 2, r.output
+    assert "keeper token" in r.output
