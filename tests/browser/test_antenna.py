@@ -119,6 +119,8 @@ def test_distance_to_fault_against_baseline_with_cautions(page: Any, page_log: P
                       ".find(t => t.name === 'this sweep').y")
     k = len(y) // 2
     assert abs(y[k] - 20 * math.log10(api["reflection"][k])) < 1e-9
+    # The server's notes read as sentences under the plot.
+    assert "Loss compensated with" in page.locator("#dtf").inner_text()
     # The cautions sit beside the result.
     assert page.locator("#dtf .caution").is_visible()
     assert "power lines" in page.locator("#dtf .caution").inner_text()

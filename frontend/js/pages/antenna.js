@@ -259,7 +259,8 @@ export async function render(root, [idText], query, isStale) {
       await drawDtf(dtfBox.plot, dtfNow, dtfBase, { filename: `antenna-${antennaId}-dtf`, lineEndM: length ?? null });
       fill(dtfNote, `Latest sweep${dtfBase ? " against the baseline's" : ""}; resolution about ${fmt.num(dtfNow.resolution, 2, "m")}. `,
         dtfNow.peaks.length ? `Strongest reflections at ${strongest(dtfNow.peaks).map((p) => fmt.num(p.distance_m, 1, "m")).join(", ")}. ` : "No reflection above the threshold. ",
-        ...dtfNow.notes.map((n) => h("span", {}, `${n} `)));
+        // the server's notes are clauses ("loss compensated with …"): each a sentence here
+        ...dtfNow.notes.map((n) => h("span", {}, `${n.charAt(0).toUpperCase()}${n.slice(1)}${/[.!?]$/.test(n) ? "" : "."} `)));
     } catch (err) {
       dtfBox.box.classList.add("hidden");
       fill(dtfNote, `Distance to fault cannot be computed for this sweep: ${err.message}`);
