@@ -19,10 +19,10 @@ from __future__ import annotations
 import json
 import math
 import re
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Annotated, Any
+from typing import Annotated, Any, TypeVar
 
 import typer
 from rich.console import Console
@@ -123,6 +123,17 @@ def analysis_to_json(a: Analysis) -> dict[str, Any]:
 
 
 # -- text rendering -------------------------------------------------------------------
+
+
+T = TypeVar("T")
+
+
+def option_value(parse: Callable[[str], T], text: str, hint: str) -> T:
+    """``parse(text)``, a ValueError turned into a usage error naming the option ``hint``."""
+    try:
+        return parse(text)
+    except ValueError as e:
+        raise typer.BadParameter(str(e), param_hint=hint) from None
 
 
 def _num(value: float | None, fmt: str = ".2f", scale: float = 1.0) -> str:
@@ -233,10 +244,7 @@ def error_line(file: str, exc: BaseException) -> str:
 def _frequencies(values: list[str] | None) -> list[float]:
     out = []
     for v in values or ():
-        try:
-            out.append(parse_frequency(v))
-        except ValueError as e:
-            raise typer.BadParameter(str(e), param_hint="--at") from None
+        out.append(option_value(parse_frequency, v, "--at"))
     return out
 
 
@@ -288,10 +296,7 @@ def analyze(
     at_hz = _frequencies(at)
     band_names = list(band or ())
     for name in band_names:  # a wrong band name is a usage error, not a bad file
-        try:
-            get_band(name, region)
-        except ValueError as e:
-            raise typer.BadParameter(str(e), param_hint="--band") from None
+        option_value(lambda n: get_band(n, region), name, "--band")
 
     from mastwatch.cli.lines import add_feedpoint, resolve_feedline  # feedline step (C)
 

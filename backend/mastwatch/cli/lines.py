@@ -25,6 +25,7 @@ from mastwatch.cli.analyze import (
     analyze_sweep,
     error_line,
     load_sweep,
+    option_value,
     parse_frequency,
 )
 from mastwatch.rf.dtf import (
@@ -161,18 +162,10 @@ def dtf(
         raise typer.BadParameter(f"choose one of {', '.join(WINDOWS)}", param_hint="--window")
     cable_type = None
     if cable is not None:
-        try:
-            cable_type = get_cable(cable)
-        except ValueError as e:
-            raise typer.BadParameter(str(e), param_hint="--cable") from None
+        cable_type = option_value(get_cable, cable, "--cable")
     if cable_type is None and vf is None:
         raise typer.BadParameter("give --cable or --vf", param_hint="--cable/--vf")
-    line_length = None
-    if length is not None:
-        try:
-            line_length = parse_length(length)
-        except ValueError as e:
-            raise typer.BadParameter(str(e), param_hint="--length") from None
+    line_length = option_value(parse_length, length, "--length") if length is not None else None
     name = str(file)
     try:
         sweep = load_sweep(file, columns)
@@ -244,18 +237,12 @@ def match(
     as_json: Annotated[bool, typer.Option("--json", help="Print the result as JSON.")] = False,
 ) -> None:
     """L-networks that match the sweep's impedance at one frequency to z0."""
-    try:
-        at_hz = parse_frequency(at)
-    except ValueError as e:
-        raise typer.BadParameter(str(e), param_hint="--at") from None
+    at_hz = option_value(parse_frequency, at, "--at")
     if not (math.isfinite(z0) and z0 > 0):
         raise typer.BadParameter("must be > 0", param_hint="--z0")
     line: Feedline | None = None
     if feedline is not None:
-        try:
-            line = parse_feedline(feedline)
-        except ValueError as e:
-            raise typer.BadParameter(str(e), param_hint="--feedline") from None
+        line = option_value(parse_feedline, feedline, "--feedline")
     name = str(file)
     try:
         sweep = load_sweep(file, columns)
@@ -309,19 +296,17 @@ def resolve_feedline(
         if cable is not None or length is not None:
             raise typer.BadParameter("give --feedline or --cable/--length, not both",
                                      param_hint="--feedline")
-        try:
-            line = parse_feedline(feedline)
-        except ValueError as e:
-            raise typer.BadParameter(str(e), param_hint="--feedline") from None
+        line = option_value(parse_feedline, feedline, "--feedline")
         return Feedline(line.cable, line.length_m, line.connectors or connectors)
     if cable is None and length is None:
         return None
     if cable is None or length is None:
         raise typer.BadParameter("--cable and --length go together", param_hint="--cable")
-    try:
-        return Feedline(get_cable(cable), parse_length(length), connectors)
-    except ValueError as e:
-        raise typer.BadParameter(str(e), param_hint="--cable/--length") from None
+    return Feedline(
+        option_value(get_cable, cable, "--cable"),
+        option_value(parse_length, length, "--length"),
+        connectors,
+    )
 
 
 def add_feedpoint(
