@@ -176,6 +176,7 @@ export const sweep = (id) => get(`/sweeps/${id}`);
 export const deleteSweep = (id) => send("DELETE", `/sweeps/${id}`);
 export const sweepData = (id, maxPoints = 801) => get(`/sweeps/${id}/data`, { max_points: maxPoints });
 export const sweepFileUrl = (id) => `${BASE}/sweeps/${id}/file`;
+export const archiveUrl = (antennaId) => `${BASE}/antennas/${antennaId}/archive`;
 export const touchstoneUrl = (id, plane) => url(`/sweeps/${id}/touchstone`, { plane });
 
 export const trend = (antennaId, band, metric, plane) =>

@@ -127,3 +127,21 @@ def test_distance_to_fault_against_baseline_with_cautions(page: Any, page_log: P
     shot(page, "antenna-dtf")
     page.locator("#dtf").screenshot(path=str(ARTIFACTS / "antenna-dtf-detail.png"))
     assert page_log.errors == []
+
+
+def test_the_record_downloads_as_one_zip(page: Any, page_log: PageLog, club: Club) -> None:
+    import io
+    import zipfile
+
+    ant = next(a for a in club.antennas if a["name"] == "40 m dipole")
+    _open(page, ant["id"])
+    with page.expect_download() as dl:
+        page.click("#archive-link")
+    path = dl.value.path()
+    assert dl.value.suggested_filename.startswith(f"antenna-{ant['id']}-")
+    with open(path, "rb") as fh:
+        zf = zipfile.ZipFile(io.BytesIO(fh.read()))
+    names = zf.namelist()
+    assert {"README.txt", "sweeps.csv", "metrics.csv", "record.json"} <= set(names)
+    assert sum(n.startswith("files/") for n in names) == len(club.sweeps[ant["id"]])
+    assert page_log.errors == []

@@ -53,7 +53,9 @@ GZIP_MIN_BYTES = 1024
 GZIP_LEVEL = 6
 
 # Records routers of this package, then routers other issues add (included if present).
-CORE_ROUTERS = ("sites", "antennas", "cable_types", "sweeps", "trend", "analyze", "events")
+CORE_ROUTERS = (
+    "sites", "antennas", "cable_types", "sweeps", "trend", "analyze", "events", "archive",
+)
 OPTIONAL_ROUTERS = ("health", "tools")
 
 

@@ -103,7 +103,10 @@ export async function render(root, [idText], query, isStale) {
       h("a", { href: `#/upload?antenna=${antennaId}` }, "Upload sweeps"),
       h("a", { href: `#/compare?antenna=${antennaId}` }, "Compare two sweeps"),
       h("a", { href: `#/check/${ant.site_id}` }, "Site check"),
-      h("a", { href: `#/manage/antennas?edit=${antennaId}` }, "Edit")));
+      h("a", { href: `#/manage/antennas?edit=${antennaId}` }, "Edit"),
+      h("a", { href: api.archiveUrl(antennaId), download: "", id: "archive-link",
+        title: "Every sweep file as uploaded, the sweeps and metrics as CSV, the record as JSON" },
+      "Download the record (zip)")));
   const baselineSweep = list.find((s) => s.id === baselineId);
   function baselineFact() {
     const b = health?.baseline;
