@@ -207,6 +207,54 @@ def _refine(mag: FloatArray, i: int) -> tuple[float, float]:
     return i + delta, float(b - 0.25 * (a - c) * delta)
 
 
+def _compensate(
+    mag: FloatArray,
+    distance: FloatArray,
+    alpha: float,
+    cable_name: str,
+    *,
+    threshold_db: float,
+    range_m: float,
+    max_distance_m: float | None,
+    line_length_m: float | None,
+    notes: list[str],
+) -> tuple[FloatArray, float]:
+    """``mag`` × e^(2α·d) with the gain bounded as the module docstring says, and the
+    view's end; the notes that say so are appended to ``notes``."""
+    # Where the two-way loss reaches the threshold: even an open comes back weaker.
+    # (threshold in nepers directly: no log of a tiny height can underflow.)
+    natural_m = threshold_db * math.log(10.0) / 20.0 / (2.0 * alpha) if alpha > 0 else math.inf
+    view_m = min(natural_m if max_distance_m is None else max_distance_m, 0.5 * range_m)
+    if max_distance_m is not None and max_distance_m > 0.5 * range_m:
+        notes.append(
+            "with loss compensation the view stops at half the unambiguous range: the far "
+            "half holds the leakage of reflections near the analyzer (negative delays)"
+        )
+    gain_to = min(view_m, natural_m, line_length_m or math.inf)
+    # Negative delays (the far half) get their mirror's gain: no line is there, and the
+    # main lobe of a reflection at d = 0 stays symmetric, so it is still found.
+    mirrored = np.minimum(distance, range_m - distance)
+    out = mag * np.exp(2.0 * alpha * np.minimum(mirrored, gain_to))
+    if alpha > 0:
+        held = ""
+        if gain_to < view_m:
+            held = (
+                " and held beyond (the line's far end)"
+                if gain_to == line_length_m
+                else f" and held beyond (there the line's two-way loss exceeds {threshold_db:g} dB)"
+            )
+        notes.append(
+            f"loss compensated with {cable_name}'s α = {alpha:.4g} Np/m at the sweep centre, "
+            f"out to {gain_to:.4g} m{held}"
+        )
+    if line_length_m is None and gain_to > 0:
+        notes.append(
+            "beyond the line's end the antenna's own response rings on, and compensation "
+            "lifts it too: give the line length to stop the gain there"
+        )
+    return out, view_m
+
+
 def distance_to_fault(
     sweep: Sweep,
     velocity_factor: float | None = None,
@@ -306,38 +354,10 @@ def distance_to_fault(
         assert cable is not None
         alpha = float(cable.alpha_np_per_m(np.array([0.5 * (f[0] + f[-1])]))[0])
         floor = float(np.median(mag))
-        # Where the two-way loss reaches the threshold: even an open comes back weaker.
-        # (threshold in nepers directly: no log of a tiny height can underflow.)
-        natural_m = threshold_db * math.log(10.0) / 20.0 / (2.0 * alpha) if alpha > 0 else math.inf
-        view_m = min(natural_m if max_distance_m is None else max_distance_m, 0.5 * range_m)
-        if max_distance_m is not None and max_distance_m > 0.5 * range_m:
-            notes.append(
-                "with loss compensation the view stops at half the unambiguous range: the far "
-                "half holds the leakage of reflections near the analyzer (negative delays)"
-            )
-        gain_to = min(view_m, natural_m, line_length_m or math.inf)
-        # Negative delays (the far half) get their mirror's gain: no line is there, and the
-        # main lobe of a reflection at d = 0 stays symmetric, so it is still found.
-        mirrored = np.minimum(distance, m * dd - distance)
-        mag = mag * np.exp(2.0 * alpha * np.minimum(mirrored, gain_to))
-        if alpha > 0:
-            held = ""
-            if gain_to < view_m:
-                held = (
-                    " and held beyond (the line's far end)"
-                    if line_length_m is not None and gain_to == line_length_m
-                    else f" and held beyond (there the line's two-way loss exceeds "
-                    f"{threshold_db:g} dB)"
-                )
-            notes.append(
-                f"loss compensated with {cable.name}'s α = {alpha:.4g} Np/m at the sweep "
-                f"centre, out to {gain_to:.4g} m{held}"
-            )
-        if line_length_m is None and gain_to > 0:
-            notes.append(
-                "beyond the line's end the antenna's own response rings on, and compensation "
-                "lifts it too: give the line length to stop the gain there"
-            )
+        mag, view_m = _compensate(
+            mag, distance, alpha, cable.name, threshold_db=threshold_db, range_m=range_m,
+            max_distance_m=max_distance_m, line_length_m=line_length_m, notes=notes,
+        )
     if window == "rect":
         notes.append("rectangular window: side lobes at about −13 dB can show as false peaks")
 
