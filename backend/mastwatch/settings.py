@@ -20,6 +20,11 @@ from mastwatch.rf.limits import MAX_FILE_BYTES
 
 KEEPER_TOKEN_PATTERN = re.compile(r"[A-Za-z0-9._~+/-]+=*")
 """RFC 6750 §2.1 b64token: what a Bearer credential may be made of."""
+KEEPER_TOKEN_RULE = (
+    "only the letters A-Z a-z, the digits 0-9 and - . _ ~ + / with = signs only at the end "
+    "(RFC 6750 b64token)"
+)
+"""The pattern in words, for every message that refuses a token."""
 
 
 class Settings(BaseSettings):
@@ -104,9 +109,7 @@ class Settings(BaseSettings):
         # a non-ASCII letter) would give 401 forever: refused at start instead.
         if value is not None and not KEEPER_TOKEN_PATTERN.fullmatch(value.get_secret_value()):
             raise ValueError(
-                "the keeper token may use only the letters A-Z a-z, the digits 0-9 and "
-                "- . _ ~ + / with = signs only at the end (RFC 6750 b64token); "
-                "no spaces or other characters"
+                f"the keeper token may use {KEEPER_TOKEN_RULE}; no spaces or other characters"
             )
         return value
 

@@ -42,10 +42,6 @@ def _digest(token: str) -> bytes:
     return hashlib.sha256(token.encode("utf-8")).digest()
 
 
-def needs_token(settings: Settings) -> bool:
-    return settings.keeper_token is not None
-
-
 def require_keeper(
     request: Request,
     credentials: HTTPAuthorizationCredentials | None = Depends(bearer),

@@ -14,7 +14,7 @@ from rich.table import Table
 
 from mastwatch.outbox import PLANES, Outbox, OutboxError, default_outbox_dir
 from mastwatch.rf.errors import SweepFormatError
-from mastwatch.settings import KEEPER_TOKEN_PATTERN
+from mastwatch.settings import KEEPER_TOKEN_PATTERN, KEEPER_TOKEN_RULE
 
 outbox_app = typer.Typer(help="Queue sweeps on a laptop with no network; send them later.")
 console = Console()
@@ -121,13 +121,14 @@ def push(
 ) -> None:
     """Send every waiting sweep. Safe to repeat: the server stores each file once."""
     box = _outbox(directory)
-    if token is not None and not KEEPER_TOKEN_PATTERN.fullmatch(token.strip()):
+    token = token.strip() if token is not None else None
+    if token is not None and not KEEPER_TOKEN_PATTERN.fullmatch(token):
         raise typer.BadParameter(
-            "a keeper token is letters, digits and - . _ ~ + / (= only at the end); "
-            "check for a stray space or a typographic quote",
+            f"a keeper token may use {KEEPER_TOKEN_RULE}; check for a stray space or a "
+            "typographic quote",
             param_hint="--token",
         )
-    headers = {"Authorization": f"Bearer {token.strip()}"} if token else {}
+    headers = {"Authorization": f"Bearer {token}"} if token else {}
 
     async def run() -> list:
         async with httpx.AsyncClient(base_url=server, timeout=timeout, headers=headers) as client:
