@@ -11,7 +11,7 @@ export function askKeeperToken({ wrong = false } = {}) {
       required: true, "aria-describedby": "keeper-token-problem" });
     const problem = h("p", { class: "error hidden", id: "keeper-token-problem", role: "alert" });
     const form = h("form", { method: "dialog" },
-      h("h2", {}, "Keeper token"),
+      h("h2", { id: "keeper-token-title" }, "Keeper token"),
       h("p", {}, wrong
         ? "The server did not accept the token this browser had. Type it again."
         : "Changing the club's records needs the keeper token. Ask the club's antenna keeper; this browser keeps it until you forget it on the Manage page."),
@@ -20,7 +20,6 @@ export function askKeeperToken({ wrong = false } = {}) {
         h("button", { type: "submit", value: "ok", class: "primary" }, "Use token"),
         h("button", { type: "button", value: "cancel", onclick: () => dialog.close("cancel") }, "Cancel")));
     const dialog = h("dialog", { class: "token-dialog", "aria-labelledby": "keeper-token-title" }, form);
-    form.querySelector("h2").id = "keeper-token-title";
     // A token no header can carry is not sent (the server could only refuse it): say
     // what is wrong with it and keep the dialog open.
     form.addEventListener("submit", (e) => {
