@@ -93,6 +93,11 @@ def _number(value: float | None) -> str:
     return "" if value is None else repr(float(value))
 
 
+def _cell(value: Any) -> Any:
+    """A metrics value for the CSV: numbers at full precision, text as it is."""
+    return value if isinstance(value, str) else _number(value)
+
+
 def write_archive(
     session: Session, antenna: Antenna, record: dict[str, Any], out: IO[bytes]
 ) -> int:
@@ -119,8 +124,7 @@ def write_archive(
         ).scalars()
         metric_rows = [
             [m.sweep_id, _utc(m.measured_at), m.plane, m.band]
-            + [_number(v) if isinstance(v, float) else ("" if v is None else v)
-               for v in (getattr(m, f) for f in BAND_METRIC_FIELDS)]
+            + [_cell(getattr(m, f)) for f in BAND_METRIC_FIELDS]
             for m in metrics
         ]
         zf.writestr("sweeps.csv", _csv(SWEEP_COLUMNS, sweep_rows))
