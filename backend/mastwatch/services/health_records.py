@@ -142,21 +142,18 @@ def sweep_view(
     )
 
 
-def current_baseline(session: Session, antenna_id: int) -> Baseline | None:
-    return session.scalar(
-        select(Baseline)
-        .where(Baseline.antenna_id == antenna_id, Baseline.ended_at.is_(None))
-        .order_by(Baseline.set_at.desc(), Baseline.id.desc())
-        .limit(1)
-    )
-
-
-_CURRENT_BASELINE_SWEEP = (
-    select(Baseline.sweep_id)
+_CURRENT_BASELINE = (
+    select(Baseline)
     .where(Baseline.antenna_id == bindparam("antenna_id"), Baseline.ended_at.is_(None))
     .order_by(Baseline.set_at.desc(), Baseline.id.desc())
     .limit(1)
 )
+_CURRENT_BASELINE_SWEEP = _CURRENT_BASELINE.with_only_columns(Baseline.sweep_id)
+
+
+def current_baseline(session: Session, antenna_id: int) -> Baseline | None:
+    baseline: Baseline | None = session.scalar(_CURRENT_BASELINE, {"antenna_id": antenna_id})
+    return baseline
 
 
 def current_baseline_sweep_id(session: Session, antenna_id: int) -> int | None:
