@@ -20,7 +20,7 @@ from sqlalchemy.orm import Session
 
 from mastwatch.api.deps import SessionDep
 from mastwatch.rf.dtf import DEFAULT_THRESHOLD_DB, SAFETY_NOTE, distance_to_fault
-from mastwatch.rf.lines import CableType
+from mastwatch.rf.lines import CableType, Feedline
 from mastwatch.rf.matching import match_summary
 from mastwatch.services import sweeps
 from mastwatch.services.antennas import feedline_from_snapshot
@@ -112,18 +112,20 @@ class MatchOut(BaseModel):
     networks: list[NetworkOut]
 
 
-def _cable(session: Session, name: str | None, vf: float | None, snapshot: Any) -> CableType | None:
+def _cable(
+    session: Session, name: str | None, vf: float | None, recorded: Feedline | None
+) -> CableType | None:
     """The named cable (catalog or user type), else the sweep's recorded feedline's cable
     when no velocity factor is given."""
     if name is not None:
         return to_rf_cable(find_cable_type(session, name))
     if vf is None:
-        if not snapshot:
+        if recorded is None:
             raise Invalid(
                 "give cable (a cable type name) or vf (velocity factor): "
                 "this sweep has no feedline on record"
             )
-        return feedline_from_snapshot(snapshot).cable
+        return recorded.cable
     return None
 
 
@@ -156,9 +158,11 @@ def sweep_dtf(
 ) -> dict[str, Any]:
     """Distance to fault of the sweep as measured (taken at the radio end of the line)."""
     row = sweeps.get_sweep(session, sweep_id, arrays=True)
-    cable_type = _cable(session, cable, vf, row.feedline_snapshot)
-    if line_length_m is None and cable is None and vf is None and row.feedline_snapshot:
-        line_length_m = feedline_from_snapshot(row.feedline_snapshot).length_m or None
+    snapshot = row.feedline_snapshot
+    recorded = feedline_from_snapshot(snapshot) if snapshot else None
+    cable_type = _cable(session, cable, vf, recorded)
+    if line_length_m is None and cable is None and vf is None and recorded is not None:
+        line_length_m = recorded.length_m or None  # the recorded cable: its length too
     result = distance_to_fault(
         sweeps.sweep_at(row, "measured"),
         vf,
