@@ -232,16 +232,12 @@ def metrics_rows(row: SweepRow, analysis: Analysis) -> list[dict[str, Any]]:
     return out
 
 
-@functools.cache
-def _find_health_judge() -> HealthJudge | None:
+@functools.cache  # looked up once, not on every upload
+def _health_judge() -> HealthJudge | None:
     if importlib.util.find_spec(HEALTH_MODULE) is None:
         return None
     judge: HealthJudge | None = getattr(importlib.import_module(HEALTH_MODULE), "judge_sweep", None)
     return judge
-
-
-def _health_judge() -> HealthJudge | None:
-    return _find_health_judge()
 
 
 def run_post_ingest_hooks(
