@@ -8,6 +8,7 @@ from fastapi import APIRouter, File, Form, UploadFile
 from pydantic import BeforeValidator
 
 from mastwatch.api.deps import SessionDep, SettingsDep
+from mastwatch.api.schemas.records import Region
 from mastwatch.api.schemas.sweeps import AnalyzeResult
 from mastwatch.api.uploads import read_upload
 from mastwatch.services import preview
@@ -28,7 +29,7 @@ def _region_from_form(value: object) -> object:
 
 
 FormRegion = Annotated[
-    Literal[1, 2, 3] | None,
+    Region | None,
     BeforeValidator(_region_from_form),
     Form(description="ITU region of the band plan (1, 2 or 3); default: the setting"),
 ]
