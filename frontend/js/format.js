@@ -40,7 +40,10 @@ export function minSwrInBand(row, digits = 2) {
 
 export function num(value, digits = 2, unit = "") {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
-  return `${value.toFixed(digits)}${unit ? ` ${unit}` : ""}`;
+  // A true minus sign, and no "−0.0" for a value that rounds to zero.
+  const shown = Math.abs(value).toFixed(digits);
+  const sign = value < 0 && Number(shown) !== 0 ? "−" : "";
+  return `${sign}${shown}${unit ? ` ${unit}` : ""}`;
 }
 
 /** Impedance as "R + jX Ω" (the sign goes between, never "+ j-3"). */
